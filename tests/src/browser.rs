@@ -1,0 +1,222 @@
+//! Real-browser harness: a static file server for the built `dist/` folder, a
+//! chromedriver process on a free port, and a headless Chromium session with the
+//! flags this machine needs. Every session is closed even when the test body fails.
+
+use fantoccini::{Client, ClientBuilder, Locator};
+use hyper_util::client::legacy::connect::HttpConnector;
+use std::future::Future;
+use std::net::TcpListener;
+use std::path::{Path, PathBuf};
+use std::process::{Child, Command, Stdio};
+use std::sync::Arc;
+use std::time::{Duration, Instant};
+
+/// Headless Chromium flags required here (closed network, root user, no GPU).
+pub const CHROMIUM_FLAGS: &[&str] = &[
+    "--headless=new",
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+    "--disable-dev-shm-usage",
+];
+
+/// The dist folder under test: `BANDGAUGE_DIST`, else `<workspace>/dist`.
+pub fn dist_dir() -> PathBuf {
+    std::env::var_os("BANDGAUGE_DIST").map(PathBuf::from).unwrap_or_else(|| {
+        Path::new(env!("CARGO_MANIFEST_DIR")).parent().expect("tests/ has a parent").join("dist")
+    })
+}
+
+fn free_port() -> u16 {
+    TcpListener::bind("127.0.0.1:0")
+        .and_then(|l| l.local_addr())
+        .map(|a| a.port())
+        .expect("a free loopback port")
+}
+
+fn mime_of(path: &Path) -> &'static str {
+    match path.extension().and_then(|e| e.to_str()).unwrap_or("") {
+        "html" => "text/html; charset=utf-8",
+        "js" => "text/javascript",
+        "wasm" => "application/wasm",
+        "css" => "text/css",
+        "json" | "webmanifest" => "application/json",
+        "svg" => "image/svg+xml",
+        "png" => "image/png",
+        "csv" => "text/csv",
+        _ => "application/octet-stream",
+    }
+}
+
+/// A static file server on 127.0.0.1 serving one folder; stops when dropped.
+pub struct StaticServer {
+    server: Arc<tiny_http::Server>,
+    thread: Option<std::thread::JoinHandle<()>>,
+    /// The base URL, ending in `/`.
+    pub url: String,
+    /// Every path requested so far (for tests that check the page fetches nothing else).
+    pub requests: Arc<std::sync::Mutex<Vec<String>>>,
+}
+
+impl StaticServer {
+    /// Serves `root` on a free loopback port.
+    pub fn start(root: &Path) -> StaticServer {
+        let port = free_port();
+        let server = Arc::new(tiny_http::Server::http(("127.0.0.1", port)).expect("bind static server"));
+        let requests = Arc::new(std::sync::Mutex::new(Vec::new()));
+        let (srv, root, log) = (server.clone(), root.to_path_buf(), requests.clone());
+        let thread = std::thread::spawn(move || {
+            for request in srv.incoming_requests() {
+                let raw = request.url().split(['?', '#']).next().unwrap_or("/").to_string();
+                log.lock().expect("request log").push(raw.clone());
+                let rel = raw.trim_start_matches('/');
+                let rel = if rel.is_empty() { "index.html" } else { rel };
+                let path = root.join(rel);
+                let safe = !rel.split('/').any(|p| p == "..");
+                let response = match std::fs::read(&path) {
+                    Ok(bytes) if safe => {
+                        let header = tiny_http::Header::from_bytes("Content-Type", mime_of(&path))
+                            .expect("valid header");
+                        tiny_http::Response::from_data(bytes).with_header(header).boxed()
+                    }
+                    _ => tiny_http::Response::from_string("not found").with_status_code(404).boxed(),
+                };
+                let _ = request.respond(response);
+            }
+        });
+        StaticServer { server, thread: Some(thread), url: format!("http://127.0.0.1:{port}/"), requests }
+    }
+}
+
+impl Drop for StaticServer {
+    fn drop(&mut self) {
+        self.server.unblock();
+        if let Some(t) = self.thread.take() {
+            let _ = t.join();
+        }
+    }
+}
+
+/// A chromedriver process; killed when dropped.
+struct Driver {
+    child: Child,
+    port: u16,
+}
+
+impl Driver {
+    fn start() -> Driver {
+        let port = free_port();
+        let binary = std::env::var("CHROMEDRIVER").unwrap_or_else(|_| "/usr/bin/chromedriver".into());
+        let child = Command::new(&binary)
+            .arg(format!("--port={port}"))
+            .stdout(Stdio::null())
+            .stderr(Stdio::null())
+            .spawn()
+            .unwrap_or_else(|e| panic!("cannot start {binary}: {e} (cargo xtask test installs it)"));
+        let deadline = Instant::now() + Duration::from_secs(20);
+        while std::net::TcpStream::connect(("127.0.0.1", port)).is_err() {
+            assert!(Instant::now() < deadline, "chromedriver did not listen on port {port}");
+            std::thread::sleep(Duration::from_millis(50));
+        }
+        Driver { child, port }
+    }
+}
+
+impl Drop for Driver {
+    fn drop(&mut self) {
+        let _ = self.child.kill();
+        let _ = self.child.wait();
+    }
+}
+
+/// Runs `body` with a fresh headless Chromium session whose window is `width` x `height`,
+/// pointed at nothing yet; `base` is the static server's URL for `dist_dir()`.
+/// The session is always closed; a failure in `body` is re-raised afterwards.
+pub async fn with_browser<F, Fut>(width: u32, height: u32, body: F)
+where
+    F: FnOnce(Client, String) -> Fut + Send + 'static,
+    Fut: Future<Output = ()> + Send + 'static,
+{
+    let dist = dist_dir();
+    assert!(dist.join("index.html").exists(), "no built app at {} (run cargo xtask test)", dist.display());
+    let server = StaticServer::start(&dist);
+    with_browser_at(width, height, server.url.clone(), body).await;
+    drop(server);
+}
+
+/// Like [`with_browser`] but with a caller-chosen base URL (for tests that run their own server).
+pub async fn with_browser_at<F, Fut>(width: u32, height: u32, base: String, body: F)
+where
+    F: FnOnce(Client, String) -> Fut + Send + 'static,
+    Fut: Future<Output = ()> + Send + 'static,
+{
+    let driver = Driver::start();
+    let profile = std::env::temp_dir().join(format!("bandgauge-chromium-{}-{}", std::process::id(), driver.port));
+    let mut args: Vec<String> = CHROMIUM_FLAGS.iter().map(|s| s.to_string()).collect();
+    args.push(format!("--user-data-dir={}", profile.display()));
+    args.push(format!("--window-size={width},{height}"));
+    let mut caps = serde_json::Map::new();
+    caps.insert(
+        "goog:chromeOptions".into(),
+        serde_json::json!({ "binary": "/usr/bin/chromium", "args": args }),
+    );
+    let client = ClientBuilder::new(HttpConnector::new())
+        .capabilities(caps)
+        .connect(&format!("http://127.0.0.1:{}", driver.port))
+        .await
+        .expect("a WebDriver session with headless Chromium");
+    let outcome = tokio::spawn(body(client.clone(), base)).await;
+    let _ = client.close().await;
+    drop(driver);
+    let _ = std::fs::remove_dir_all(&profile);
+    if let Err(e) = outcome {
+        if e.is_panic() {
+            std::panic::resume_unwind(e.into_panic());
+        }
+        panic!("browser test task failed: {e}");
+    }
+}
+
+/// Waits until the element with `data-testid` exists and returns it.
+pub async fn by_testid(client: &Client, id: &str) -> fantoccini::elements::Element {
+    let css = format!("[data-testid=\"{id}\"]");
+    client
+        .wait()
+        .at_most(Duration::from_secs(20))
+        .for_element(Locator::Css(&css))
+        .await
+        .unwrap_or_else(|e| panic!("element [data-testid={id}] did not appear: {e}"))
+}
+
+/// Replaces the content of an input as a user would: select all, then type.
+pub async fn retype(client: &Client, id: &str, text: &str) {
+    let input = by_testid(client, id).await;
+    input.clear().await.expect("clear input");
+    input.send_keys(text).await.expect("type into input");
+}
+
+/// Polls the text of `[data-testid=id]` until `accept` holds or 10 s pass; returns the last text.
+pub async fn text_until(client: &Client, id: &str, accept: impl Fn(&str) -> bool) -> String {
+    let deadline = Instant::now() + Duration::from_secs(10);
+    loop {
+        let text = by_testid(client, id).await.text().await.unwrap_or_default();
+        if accept(&text) || Instant::now() > deadline {
+            return text;
+        }
+        tokio::time::sleep(Duration::from_millis(50)).await;
+    }
+}
+
+/// Saves a PNG screenshot under `tests/artifacts/` for a person to look at.
+pub async fn screenshot(client: &Client, name: &str) -> PathBuf {
+    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("artifacts");
+    std::fs::create_dir_all(&dir).expect("create tests/artifacts");
+    let png = client.screenshot().await.expect("screenshot");
+    let path = dir.join(format!("{name}.png"));
+    std::fs::write(&path, png).expect("write screenshot");
+    path
+}

@@ -1,0 +1,3 @@
+//! Shared harness for bandgauge's cross-crate and browser tests.
+
+pub mod browser;

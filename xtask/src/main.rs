@@ -1,0 +1,49 @@
+//! `cargo xtask`: set-up, build, serve, test and benchmark automation for bandgauge.
+//!
+//! One module per subcommand; `tools` installs missing prerequisites idempotently.
+
+mod bench;
+mod dist;
+mod serve;
+mod shell;
+mod test;
+mod tools;
+
+use std::process::ExitCode;
+
+const USAGE: &str = "\
+usage: cargo xtask <command> [options]
+
+commands:
+  serve [--port N]   install missing tools, build the app and serve it on http://127.0.0.1:N (default 8080)
+  dist               release build of the app into dist/
+  test               every check: fmt, clippy (native and wasm32), unit and reference tests,
+                     the wasm release build and the browser tests; ends with 'N passed, N failed'
+  bench              criterion benchmarks of the core and in-browser timings, as one table
+";
+
+fn main() -> ExitCode {
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    let Some((command, rest)) = args.split_first() else {
+        eprint!("{USAGE}");
+        return ExitCode::from(2);
+    };
+    let result = match command.as_str() {
+        "serve" => serve::run(rest),
+        "dist" => dist::run(rest).map(|_| ()),
+        "test" => test::run(rest),
+        "bench" => bench::run(rest),
+        "help" | "--help" | "-h" => {
+            print!("{USAGE}");
+            Ok(())
+        }
+        other => Err(format!("unknown command '{other}'\n{USAGE}")),
+    };
+    match result {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(message) => {
+            eprintln!("xtask: {message}");
+            ExitCode::FAILURE
+        }
+    }
+}
