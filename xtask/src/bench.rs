@@ -1,18 +1,57 @@
-//! `cargo xtask bench`: criterion benchmarks of the core, printed as one table.
+//! `cargo xtask bench`: criterion benchmarks of the core, the same neutrality problem
+//! scripted in Python with SciPy for a speed ratio, printed as one table.
+//!
+//! Machines here are noisy: every figure is a median, and comparisons are ratios
+//! measured in the same run.
 
 use crate::shell::{self, root};
+use std::process::Command;
+
+/// The criterion benchmark whose median is compared with the Python script.
+const SOLVE_BENCH: &str = "neutrality/solve_si_p1e15_300k";
+const PYTHON_SCRIPT: &str = "core/benches/python/neutrality_scipy.py";
 
 pub fn run(_args: &[String]) -> Result<(), String> {
     shell::run(shell::cargo().args(["bench", "-p", "bandgauge-core"]))?;
     let dir = root().join("target").join("criterion");
-    println!("{:<48} {:>14}", "benchmark", "median");
     let mut rows = Vec::new();
     collect(&dir, &mut rows);
     rows.sort_by(|a, b| a.0.cmp(&b.0));
-    for (name, median_ns) in rows {
-        println!("{name:<48} {:>14}", format_ns(median_ns));
+    println!();
+    println!("{:<56} {:>14}", "benchmark (median)", "time");
+    for (name, median_ns) in &rows {
+        println!("{name:<56} {:>14}", format_ns(*median_ns));
+    }
+    let solve_ns = rows.iter().find(|(n, _)| n == SOLVE_BENCH).map(|(_, ns)| *ns);
+    match (python_us_per_solve(), solve_ns) {
+        (Ok(py_us), Some(ns)) => {
+            println!("{:<56} {:>14}", "python scipy brentq, same problem", format_ns(py_us * 1e3));
+            println!("{:<56} {:>13.0}x", "speed ratio python / bandgauge", py_us * 1e3 / ns);
+        }
+        (Err(e), _) => println!("python comparison not run: {e}"),
+        (_, None) => println!("python comparison not run: no criterion result named {SOLVE_BENCH}"),
     }
     Ok(())
+}
+
+/// Runs the Python reference script (installing SciPy and mpmath from PyPI when missing)
+/// and reads its `python_us_per_solve=<x>` line.
+fn python_us_per_solve() -> Result<f64, String> {
+    let script = root().join(PYTHON_SCRIPT);
+    if !script.exists() {
+        return Err(format!("{} is missing", script.display()));
+    }
+    let have = Command::new("python3").args(["-c", "import scipy, mpmath"]).status();
+    if !have.is_ok_and(|s| s.success()) {
+        eprintln!("xtask: installing scipy and mpmath from PyPI for the comparison (about a minute)");
+        shell::run(Command::new("python3").args(["-m", "pip", "install", "--quiet", "scipy", "mpmath"]))?;
+    }
+    let out = shell::capture(Command::new("python3").arg(&script))?;
+    let text = String::from_utf8_lossy(&out.stdout);
+    text.lines()
+        .find_map(|l| l.trim().strip_prefix("python_us_per_solve="))
+        .and_then(|v| v.trim().parse().ok())
+        .ok_or_else(|| format!("{PYTHON_SCRIPT} printed no python_us_per_solve line: {text}"))
 }
 
 /// Finds `<bench>/new/estimates.json` files and reads their median point estimate.
@@ -20,22 +59,25 @@ fn collect(dir: &std::path::Path, rows: &mut Vec<(String, f64)>) {
     let Ok(entries) = std::fs::read_dir(dir) else { return };
     for entry in entries.flatten() {
         let path = entry.path();
-        if path.is_dir() {
-            let est = path.join("new").join("estimates.json");
-            if let Some(median) = std::fs::read_to_string(&est).ok().and_then(|t| median_ns(&t)) {
-                let name = path.strip_prefix(root().join("target").join("criterion")).unwrap_or(&path);
-                rows.push((name.display().to_string(), median));
-            } else {
-                collect(&path, rows);
-            }
+        if !path.is_dir() {
+            continue;
+        }
+        let est = path.join("new").join("estimates.json");
+        if let Some(median) = std::fs::read_to_string(&est).ok().and_then(|t| median_ns(&t)) {
+            let base = root().join("target").join("criterion");
+            let name = path.strip_prefix(&base).unwrap_or(&path);
+            rows.push((name.display().to_string(), median));
+        } else {
+            collect(&path, rows);
         }
     }
 }
 
-/// Extracts `"median":{"confidence_interval":...,"point_estimate":X` without a JSON dependency.
+/// Extracts `"median":{...,"point_estimate":X` without a JSON dependency.
 fn median_ns(json: &str) -> Option<f64> {
     let median = &json[json.find("\"median\"")?..];
-    let pe = &median[median.find("\"point_estimate\":")? + "\"point_estimate\":".len()..];
+    let key = "\"point_estimate\":";
+    let pe = &median[median.find(key)? + key.len()..];
     let end = pe.find([',', '}'])?;
     pe[..end].trim().parse().ok()
 }
@@ -47,5 +89,17 @@ fn format_ns(ns: f64) -> String {
         format!("{:.2} us", ns / 1e3)
     } else {
         format!("{:.2} ms", ns / 1e6)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::median_ns;
+
+    #[test]
+    fn reads_criterion_median() {
+        // Source: criterion's estimates.json layout, common practice, no source.
+        let json = r#"{"mean":{"point_estimate":5.0},"median":{"confidence_interval":{"lower_bound":1.0},"point_estimate":42.5,"standard_error":0.1}}"#;
+        assert_eq!(median_ns(json), Some(42.5));
     }
 }
