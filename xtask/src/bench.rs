@@ -22,11 +22,22 @@ pub fn run(_args: &[String]) -> Result<(), String> {
     for (name, median_ns) in &rows {
         println!("{name:<56} {:>14}", format_ns(*median_ns));
     }
-    let solve_ns = rows.iter().find(|(n, _)| n == SOLVE_BENCH).map(|(_, ns)| *ns);
+    let solve_ns = rows
+        .iter()
+        .find(|(n, _)| n == SOLVE_BENCH)
+        .map(|(_, ns)| *ns);
     match (python_us_per_solve(), solve_ns) {
         (Ok(py_us), Some(ns)) => {
-            println!("{:<56} {:>14}", "python scipy brentq, same problem", format_ns(py_us * 1e3));
-            println!("{:<56} {:>13.0}x", "speed ratio python / bandgauge", py_us * 1e3 / ns);
+            println!(
+                "{:<56} {:>14}",
+                "python scipy brentq, same problem",
+                format_ns(py_us * 1e3)
+            );
+            println!(
+                "{:<56} {:>13.0}x",
+                "speed ratio python / bandgauge",
+                py_us * 1e3 / ns
+            );
         }
         (Err(e), _) => println!("python comparison not run: {e}"),
         (_, None) => println!("python comparison not run: no criterion result named {SOLVE_BENCH}"),
@@ -41,10 +52,16 @@ fn python_us_per_solve() -> Result<f64, String> {
     if !script.exists() {
         return Err(format!("{} is missing", script.display()));
     }
-    let have = Command::new("python3").args(["-c", "import scipy, mpmath"]).status();
+    let have = Command::new("python3")
+        .args(["-c", "import scipy, mpmath"])
+        .status();
     if !have.is_ok_and(|s| s.success()) {
-        eprintln!("xtask: installing scipy and mpmath from PyPI for the comparison (about a minute)");
-        shell::run(Command::new("python3").args(["-m", "pip", "install", "--quiet", "scipy", "mpmath"]))?;
+        eprintln!(
+            "xtask: installing scipy and mpmath from PyPI for the comparison (about a minute)"
+        );
+        shell::run(
+            Command::new("python3").args(["-m", "pip", "install", "--quiet", "scipy", "mpmath"]),
+        )?;
     }
     let out = shell::capture(Command::new("python3").arg(&script))?;
     let text = String::from_utf8_lossy(&out.stdout);
@@ -56,14 +73,19 @@ fn python_us_per_solve() -> Result<f64, String> {
 
 /// Finds `<bench>/new/estimates.json` files and reads their median point estimate.
 fn collect(dir: &std::path::Path, rows: &mut Vec<(String, f64)>) {
-    let Ok(entries) = std::fs::read_dir(dir) else { return };
+    let Ok(entries) = std::fs::read_dir(dir) else {
+        return;
+    };
     for entry in entries.flatten() {
         let path = entry.path();
         if !path.is_dir() {
             continue;
         }
         let est = path.join("new").join("estimates.json");
-        if let Some(median) = std::fs::read_to_string(&est).ok().and_then(|t| median_ns(&t)) {
+        if let Some(median) = std::fs::read_to_string(&est)
+            .ok()
+            .and_then(|t| median_ns(&t))
+        {
             let base = root().join("target").join("criterion");
             let name = path.strip_prefix(&base).unwrap_or(&path);
             rows.push((name.display().to_string(), median));

@@ -24,13 +24,17 @@ pub fn build_release() -> Result<PathBuf, String> {
 
 /// The .wasm files of a dist folder (there must be at least one).
 pub fn wasm_files(dist: &std::path::Path) -> Result<Vec<PathBuf>, String> {
-    let entries = std::fs::read_dir(dist).map_err(|e| format!("cannot read {}: {e}", dist.display()))?;
+    let entries =
+        std::fs::read_dir(dist).map_err(|e| format!("cannot read {}: {e}", dist.display()))?;
     let wasm: Vec<PathBuf> = entries
         .filter_map(|e| e.ok().map(|e| e.path()))
         .filter(|p| p.extension().is_some_and(|x| x == "wasm"))
         .collect();
     if wasm.is_empty() {
-        return Err(format!("{} holds no .wasm file after the build", dist.display()));
+        return Err(format!(
+            "{} holds no .wasm file after the build",
+            dist.display()
+        ));
     }
     Ok(wasm)
 }

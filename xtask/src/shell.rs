@@ -25,7 +25,9 @@ pub fn describe(cmd: &Command) -> String {
 pub fn run(cmd: &mut Command) -> Result<(), String> {
     let what = describe(cmd);
     eprintln!("$ {what}");
-    let status = cmd.status().map_err(|e| format!("cannot start '{what}': {e}"))?;
+    let status = cmd
+        .status()
+        .map_err(|e| format!("cannot start '{what}': {e}"))?;
     if status.success() {
         Ok(())
     } else {
@@ -43,7 +45,11 @@ pub fn capture(cmd: &mut Command) -> Result<Output, String> {
 
 /// The first line a program prints for `--version`, or None when it is missing.
 pub fn version_of(program: &Path, arg: &str) -> Option<String> {
-    let out = Command::new(program).arg(arg).stdin(Stdio::null()).output().ok()?;
+    let out = Command::new(program)
+        .arg(arg)
+        .stdin(Stdio::null())
+        .output()
+        .ok()?;
     if !out.status.success() {
         return None;
     }

@@ -75,7 +75,11 @@ fn parse_result_line(line: &str) -> Option<(u64, u64, u64)> {
     let count = |label: &str| -> u64 {
         rest.split(';')
             .find_map(|part| {
-                let part = part.trim().trim_start_matches("ok.").trim_start_matches("FAILED.").trim();
+                let part = part
+                    .trim()
+                    .trim_start_matches("ok.")
+                    .trim_start_matches("FAILED.")
+                    .trim();
                 part.strip_suffix(label).and_then(|n| n.trim().parse().ok())
             })
             .unwrap_or(0)
@@ -90,31 +94,65 @@ pub fn run(args: &[String]) -> Result<(), String> {
     let mut tally = Tally::default();
     tally.gate("install build tools", tools::ensure_build_tools());
     tally.gate("install chromium", tools::ensure_chromium());
-    tally.gate("rustfmt", shell::run(shell::cargo().args(["fmt", "--all", "--check"])));
+    tally.gate(
+        "rustfmt",
+        shell::run(shell::cargo().args(["fmt", "--all", "--check"])),
+    );
     tally.gate(
         "clippy native",
-        shell::run(shell::cargo().args(["clippy", "--workspace", "--all-targets", "--all-features", "--", "-D", "warnings"])),
+        shell::run(shell::cargo().args([
+            "clippy",
+            "--workspace",
+            "--all-targets",
+            "--all-features",
+            "--",
+            "-D",
+            "warnings",
+        ])),
     );
     tally.gate(
         "clippy wasm32",
         shell::run(shell::cargo().args([
-            "clippy", "-p", "bandgauge-app", "--target", "wasm32-unknown-unknown", "--", "-D", "warnings",
+            "clippy",
+            "-p",
+            "bandgauge-app",
+            "--target",
+            "wasm32-unknown-unknown",
+            "--",
+            "-D",
+            "warnings",
         ])),
     );
-    tally.suite("cargo test --workspace", shell::cargo().args(["test", "--workspace"]));
+    tally.suite(
+        "cargo test --workspace",
+        shell::cargo().args(["test", "--workspace"]),
+    );
     let dist = dist::build_release();
-    let built = tally.gate("wasm release build", dist.as_ref().map(|_| ()).map_err(Clone::clone));
+    let built = tally.gate(
+        "wasm release build",
+        dist.as_ref().map(|_| ()).map_err(Clone::clone),
+    );
     if let (true, Ok(dist)) = (built, dist) {
         tally.suite(
             "browser tests",
             shell::cargo()
-                .args(["test", "-p", "bandgauge-tests", "--features", "browser", "--test", "browser"])
+                .args([
+                    "test",
+                    "-p",
+                    "bandgauge-tests",
+                    "--features",
+                    "browser",
+                    "--test",
+                    "browser",
+                ])
                 .env("BANDGAUGE_DIST", dist)
                 .env("BANDGAUGE_ROOT", root()),
         );
     } else {
         tally.failed += 1;
-        tally.failures.push("browser tests: not run, the wasm build failed".into());
+        tally
+            .failures
+            .push("browser tests: not run, the wasm build failed".into());
     }
     for f in &tally.failures {
         eprintln!("xtask: failure: {f}");
@@ -124,7 +162,11 @@ pub fn run(args: &[String]) -> Result<(), String> {
         summary.push_str(&format!(", {} skipped", tally.skipped));
     }
     println!("{summary}");
-    if tally.failed > 0 { Err(format!("{} check(s) failed", tally.failed)) } else { Ok(()) }
+    if tally.failed > 0 {
+        Err(format!("{} check(s) failed", tally.failed))
+    } else {
+        Ok(())
+    }
 }
 
 #[cfg(test)]

@@ -26,7 +26,9 @@ pub fn cargo_bin_dir() -> PathBuf {
 }
 
 fn home_dir() -> PathBuf {
-    std::env::var_os("HOME").map(PathBuf::from).unwrap_or_else(|| PathBuf::from("/root"))
+    std::env::var_os("HOME")
+        .map(PathBuf::from)
+        .unwrap_or_else(|| PathBuf::from("/root"))
 }
 
 /// A per-user cache for tools that are not cargo binaries (binaryen from npm).
@@ -38,7 +40,10 @@ fn cache_dir() -> PathBuf {
 }
 
 fn binaryen_bin_dir() -> PathBuf {
-    cache_dir().join(format!("binaryen-{BINARYEN_VERSION}")).join("node_modules").join(".bin")
+    cache_dir()
+        .join(format!("binaryen-{BINARYEN_VERSION}"))
+        .join("node_modules")
+        .join(".bin")
 }
 
 /// PATH with the cargo bin folder and the wasm-opt folder first, for trunk.
@@ -57,10 +62,12 @@ pub fn locked_wasm_bindgen_version() -> Result<String, String> {
         .map_err(|e| format!("cannot read {}: {e}", lock_path.display()))?;
     let mut lines = lock.lines();
     while let Some(line) = lines.next() {
-        if line.trim() == "name = \"wasm-bindgen\"" {
-            if let Some(v) = lines.next().and_then(|l| l.trim().strip_prefix("version = \"")) {
-                return Ok(v.trim_end_matches('"').to_string());
-            }
+        if line.trim() == "name = \"wasm-bindgen\""
+            && let Some(v) = lines
+                .next()
+                .and_then(|l| l.trim().strip_prefix("version = \""))
+        {
+            return Ok(v.trim_end_matches('"').to_string());
         }
     }
     Err("Cargo.lock has no wasm-bindgen entry".into())
@@ -72,13 +79,19 @@ fn announce(what: &str, how_long: &str) -> Instant {
 }
 
 fn done(what: &str, started: Instant) {
-    eprintln!("xtask: {what} installed in {:.0} s", started.elapsed().as_secs_f64());
+    eprintln!(
+        "xtask: {what} installed in {:.0} s",
+        started.elapsed().as_secs_f64()
+    );
 }
 
 /// The wasm32 standard library for the active toolchain.
 pub fn ensure_wasm_target() -> Result<(), String> {
     let out = shell::capture(Command::new("rustup").args(["target", "list", "--installed"]))?;
-    if String::from_utf8_lossy(&out.stdout).lines().any(|l| l.trim() == WASM_TARGET) {
+    if String::from_utf8_lossy(&out.stdout)
+        .lines()
+        .any(|l| l.trim() == WASM_TARGET)
+    {
         return Ok(());
     }
     let t = announce("the wasm32-unknown-unknown target", "under a minute");
@@ -93,7 +106,10 @@ pub fn ensure_trunk() -> Result<(), String> {
     if version_of(&trunk, "--version").as_deref() == Some(&format!("trunk {TRUNK_VERSION}")) {
         return Ok(());
     }
-    let t = announce(&format!("trunk {TRUNK_VERSION} from crates.io"), "about 7 minutes");
+    let t = announce(
+        &format!("trunk {TRUNK_VERSION} from crates.io"),
+        "about 7 minutes",
+    );
     shell::run(shell::cargo().args(["install", "trunk", "--locked", "--version", TRUNK_VERSION]))?;
     done("trunk", t);
     Ok(())
@@ -107,7 +123,10 @@ pub fn ensure_wasm_bindgen() -> Result<(), String> {
     if version_of(&bin, "--version").as_deref() == Some(&format!("wasm-bindgen {version}")) {
         return Ok(());
     }
-    let t = announce(&format!("wasm-bindgen-cli {version} from crates.io"), "about 4 minutes");
+    let t = announce(
+        &format!("wasm-bindgen-cli {version} from crates.io"),
+        "about 4 minutes",
+    );
     shell::run(shell::cargo().args(["install", "wasm-bindgen-cli", "--version", &version]))?;
     done("wasm-bindgen-cli", t);
     Ok(())
@@ -120,10 +139,17 @@ pub fn ensure_wasm_opt() -> Result<(), String> {
     if version_of(&bin, "--version").is_some_and(|v| v.contains(&format!("version {major}"))) {
         return Ok(());
     }
-    let prefix = binaryen_bin_dir().parent().and_then(|p| p.parent()).map(PathBuf::from);
+    let prefix = binaryen_bin_dir()
+        .parent()
+        .and_then(|p| p.parent())
+        .map(PathBuf::from);
     let prefix = prefix.ok_or("binaryen cache folder has no parent")?;
-    std::fs::create_dir_all(&prefix).map_err(|e| format!("cannot create {}: {e}", prefix.display()))?;
-    let t = announce(&format!("wasm-opt (npm binaryen@{BINARYEN_VERSION})"), "a few seconds");
+    std::fs::create_dir_all(&prefix)
+        .map_err(|e| format!("cannot create {}: {e}", prefix.display()))?;
+    let t = announce(
+        &format!("wasm-opt (npm binaryen@{BINARYEN_VERSION})"),
+        "a few seconds",
+    );
     shell::run(
         Command::new("npm")
             .arg("install")
@@ -167,6 +193,8 @@ pub fn ensure_build_tools() -> Result<(), String> {
 /// A trunk command with the installed tools first on PATH.
 pub fn trunk() -> Command {
     let mut cmd = Command::new(cargo_bin_dir().join("trunk"));
-    cmd.current_dir(root()).env("PATH", tool_path()).env("TRUNK_SKIP_VERSION_CHECK", "true");
+    cmd.current_dir(root())
+        .env("PATH", tool_path())
+        .env("TRUNK_SKIP_VERSION_CHECK", "true");
     cmd
 }
