@@ -6,9 +6,25 @@
 //! citation list and the keys used in code).
 
 pub mod bandgap;
+pub mod bgn;
+pub mod compare;
 pub mod constants;
 pub mod dos;
+pub mod empirical;
+pub mod fermi_dirac;
 pub mod intrinsic;
+pub mod ionization;
+pub mod lots;
 pub mod materials;
+pub mod mobility;
+pub mod neutrality;
+pub mod probe;
+pub mod resistivity;
+pub mod sweep;
+pub mod uncertainty;
+pub mod units;
 
-pub use materials::Material;
+pub use bgn::BgnModel;
+pub use intrinsic::IntrinsicModel;
+pub use materials::{Dopant, DopantDensity, DopantKind, Material, MaterialError};
+pub use neutrality::{CarrierError, Equilibrium, ModelUsed, Regime, SolveOptions, SpeciesState};

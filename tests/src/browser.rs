@@ -26,9 +26,14 @@ pub const CHROMIUM_FLAGS: &[&str] = &[
 
 /// The dist folder under test: `BANDGAUGE_DIST`, else `<workspace>/dist`.
 pub fn dist_dir() -> PathBuf {
-    std::env::var_os("BANDGAUGE_DIST").map(PathBuf::from).unwrap_or_else(|| {
-        Path::new(env!("CARGO_MANIFEST_DIR")).parent().expect("tests/ has a parent").join("dist")
-    })
+    std::env::var_os("BANDGAUGE_DIST")
+        .map(PathBuf::from)
+        .unwrap_or_else(|| {
+            Path::new(env!("CARGO_MANIFEST_DIR"))
+                .parent()
+                .expect("tests/ has a parent")
+                .join("dist")
+        })
 }
 
 fn free_port() -> u16 {
@@ -66,12 +71,18 @@ impl StaticServer {
     /// Serves `root` on a free loopback port.
     pub fn start(root: &Path) -> StaticServer {
         let port = free_port();
-        let server = Arc::new(tiny_http::Server::http(("127.0.0.1", port)).expect("bind static server"));
+        let server =
+            Arc::new(tiny_http::Server::http(("127.0.0.1", port)).expect("bind static server"));
         let requests = Arc::new(std::sync::Mutex::new(Vec::new()));
         let (srv, root, log) = (server.clone(), root.to_path_buf(), requests.clone());
         let thread = std::thread::spawn(move || {
             for request in srv.incoming_requests() {
-                let raw = request.url().split(['?', '#']).next().unwrap_or("/").to_string();
+                let raw = request
+                    .url()
+                    .split(['?', '#'])
+                    .next()
+                    .unwrap_or("/")
+                    .to_string();
                 log.lock().expect("request log").push(raw.clone());
                 let rel = raw.trim_start_matches('/');
                 let rel = if rel.is_empty() { "index.html" } else { rel };
@@ -81,14 +92,23 @@ impl StaticServer {
                     Ok(bytes) if safe => {
                         let header = tiny_http::Header::from_bytes("Content-Type", mime_of(&path))
                             .expect("valid header");
-                        tiny_http::Response::from_data(bytes).with_header(header).boxed()
+                        tiny_http::Response::from_data(bytes)
+                            .with_header(header)
+                            .boxed()
                     }
-                    _ => tiny_http::Response::from_string("not found").with_status_code(404).boxed(),
+                    _ => tiny_http::Response::from_string("not found")
+                        .with_status_code(404)
+                        .boxed(),
                 };
                 let _ = request.respond(response);
             }
         });
-        StaticServer { server, thread: Some(thread), url: format!("http://127.0.0.1:{port}/"), requests }
+        StaticServer {
+            server,
+            thread: Some(thread),
+            url: format!("http://127.0.0.1:{port}/"),
+            requests,
+        }
     }
 }
 
@@ -110,16 +130,22 @@ struct Driver {
 impl Driver {
     fn start() -> Driver {
         let port = free_port();
-        let binary = std::env::var("CHROMEDRIVER").unwrap_or_else(|_| "/usr/bin/chromedriver".into());
+        let binary =
+            std::env::var("CHROMEDRIVER").unwrap_or_else(|_| "/usr/bin/chromedriver".into());
         let child = Command::new(&binary)
             .arg(format!("--port={port}"))
             .stdout(Stdio::null())
             .stderr(Stdio::null())
             .spawn()
-            .unwrap_or_else(|e| panic!("cannot start {binary}: {e} (cargo xtask test installs it)"));
+            .unwrap_or_else(|e| {
+                panic!("cannot start {binary}: {e} (cargo xtask test installs it)")
+            });
         let deadline = Instant::now() + Duration::from_secs(20);
         while std::net::TcpStream::connect(("127.0.0.1", port)).is_err() {
-            assert!(Instant::now() < deadline, "chromedriver did not listen on port {port}");
+            assert!(
+                Instant::now() < deadline,
+                "chromedriver did not listen on port {port}"
+            );
             std::thread::sleep(Duration::from_millis(50));
         }
         Driver { child, port }
@@ -142,7 +168,11 @@ where
     Fut: Future<Output = ()> + Send + 'static,
 {
     let dist = dist_dir();
-    assert!(dist.join("index.html").exists(), "no built app at {} (run cargo xtask test)", dist.display());
+    assert!(
+        dist.join("index.html").exists(),
+        "no built app at {} (run cargo xtask test)",
+        dist.display()
+    );
     let server = StaticServer::start(&dist);
     with_browser_at(width, height, server.url.clone(), body).await;
     drop(server);
@@ -155,7 +185,11 @@ where
     Fut: Future<Output = ()> + Send + 'static,
 {
     let driver = Driver::start();
-    let profile = std::env::temp_dir().join(format!("bandgauge-chromium-{}-{}", std::process::id(), driver.port));
+    let profile = std::env::temp_dir().join(format!(
+        "bandgauge-chromium-{}-{}",
+        std::process::id(),
+        driver.port
+    ));
     let mut args: Vec<String> = CHROMIUM_FLAGS.iter().map(|s| s.to_string()).collect();
     args.push(format!("--user-data-dir={}", profile.display()));
     args.push(format!("--window-size={width},{height}"));

@@ -1,3 +1,4 @@
 //! Shared harness for bandgauge's cross-crate and browser tests.
 
 pub mod browser;
+pub mod ui;

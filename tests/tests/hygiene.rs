@@ -5,16 +5,24 @@
 use std::path::{Path, PathBuf};
 
 fn workspace_root() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).parent().expect("tests/ has a parent").to_path_buf()
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+        .parent()
+        .expect("tests/ has a parent")
+        .to_path_buf()
 }
 
 fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {
-    let Ok(entries) = std::fs::read_dir(dir) else { return };
+    let Ok(entries) = std::fs::read_dir(dir) else {
+        return;
+    };
     for entry in entries.flatten() {
         let path = entry.path();
         let name = path.file_name().and_then(|n| n.to_str()).unwrap_or("");
         if path.is_dir() {
-            if !matches!(name, "target" | "dist" | "artifacts" | "node_modules" | ".git" | "fuzz") {
+            if !matches!(
+                name,
+                "target" | "dist" | "artifacts" | "node_modules" | ".git" | "fuzz"
+            ) {
                 rust_files(&path, out);
             }
         } else if name.ends_with(".rs") {
@@ -28,7 +36,11 @@ fn all_rust_files() -> Vec<PathBuf> {
     for krate in ["core", "app", "cli", "tests", "xtask"] {
         rust_files(&workspace_root().join(krate), &mut files);
     }
-    assert!(files.len() >= 10, "hygiene scan found only {} Rust files", files.len());
+    assert!(
+        files.len() >= 10,
+        "hygiene scan found only {} Rust files",
+        files.len()
+    );
     files
 }
 
@@ -42,7 +54,10 @@ fn every_rust_file_has_a_module_header() {
         })
         .map(|p| p.display().to_string())
         .collect();
-    assert!(missing.is_empty(), "files without a //! header: {missing:#?}");
+    assert!(
+        missing.is_empty(),
+        "files without a //! header: {missing:#?}"
+    );
 }
 
 #[test]
@@ -50,7 +65,11 @@ fn no_test_is_ignored() {
     let needle = ["#[", "ignore"].concat();
     let offenders: Vec<String> = all_rust_files()
         .into_iter()
-        .filter(|p| std::fs::read_to_string(p).unwrap_or_default().contains(&needle))
+        .filter(|p| {
+            std::fs::read_to_string(p)
+                .unwrap_or_default()
+                .contains(&needle)
+        })
         .map(|p| p.display().to_string())
         .collect();
     assert!(offenders.is_empty(), "ignored tests in: {offenders:#?}");

@@ -1,24 +1,50 @@
-//! `cargo xtask dist`: release build of the app into `dist/`.
+//! `cargo xtask dist [--out DIR]`: release build of the app into `dist/` (a static
+//! folder for any web server) plus the self-contained single HTML file beside it.
 
 use crate::shell::{self, root};
 use crate::tools;
 use std::path::PathBuf;
 
 /// Builds the release app and returns the dist folder.
-pub fn run(_args: &[String]) -> Result<PathBuf, String> {
+pub fn run(args: &[String]) -> Result<PathBuf, String> {
+    let out = match args {
+        [] => root().join("dist"),
+        [flag, dir] if flag == "--out" => std::path::absolute(dir)
+            .map_err(|e| format!("--out: '{dir}' is not a usable folder: {e}"))?,
+        _ => {
+            return Err(format!(
+                "dist takes only [--out DIR], got: {}",
+                args.join(" ")
+            ));
+        }
+    };
     tools::ensure_build_tools()?;
-    build_release()
+    build_release_into(out)
 }
 
-/// The release build alone (tools already present).
+/// The release build into `dist/` (tools already present).
 pub fn build_release() -> Result<PathBuf, String> {
-    shell::run(tools::trunk().args(["build", "--release"]))?;
-    let dist = root().join("dist");
+    build_release_into(root().join("dist"))
+}
+
+fn build_release_into(dist: PathBuf) -> Result<PathBuf, String> {
+    shell::run(
+        tools::trunk()
+            .args(["build", "--release", "--dist"])
+            .arg(&dist),
+    )?;
     let wasm = wasm_files(&dist)?;
     for w in &wasm {
         let size = std::fs::metadata(w).map(|m| m.len()).unwrap_or(0);
         eprintln!("xtask: {} is {:.0} KB", w.display(), size as f64 / 1024.0);
     }
+    let single = crate::single_file::build(&dist)?;
+    let size = std::fs::metadata(&single).map(|m| m.len()).unwrap_or(0);
+    eprintln!(
+        "xtask: self-contained {} is {:.0} KB",
+        single.display(),
+        size as f64 / 1024.0
+    );
     Ok(dist)
 }
 

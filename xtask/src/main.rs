@@ -6,6 +6,7 @@ mod bench;
 mod dist;
 mod serve;
 mod shell;
+mod single_file;
 mod test;
 mod tools;
 

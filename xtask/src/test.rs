@@ -144,6 +144,8 @@ pub fn run(args: &[String]) -> Result<(), String> {
                     "browser",
                     "--test",
                     "browser",
+                    "--test",
+                    "offline",
                 ])
                 .env("BANDGAUGE_DIST", dist)
                 .env("BANDGAUGE_ROOT", root()),

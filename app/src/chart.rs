@@ -1,0 +1,492 @@
+//! Chart descriptions (plain data), their drawing with plotters on any backend, and their
+//! CSV export. The views build a [`ChartSpec`]; `canvas.rs` puts it on a `<canvas>`.
+//!
+//! Log axes are drawn as linear axes over log10 of the data with decade labels: one code
+//! path for every axis kind, and the clipping of curves that run off the bottom of a log
+//! axis (minority carriers at low temperature) stays in our hands.
+
+use crate::format;
+use plotters::coord::Shift;
+use plotters::prelude::*;
+use plotters::style::Color as _;
+
+/// An sRGB colour.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Color(pub u8, pub u8, pub u8);
+
+impl Color {
+    fn rgb(self) -> RGBColor {
+        RGBColor(self.0, self.1, self.2)
+    }
+}
+
+/// The workbench palette: dark enough for 4.5:1 contrast on white, told apart by hue
+/// and, where two curves may touch, by stroke as well.
+pub mod palette {
+    use super::Color;
+    /// Electrons, n-type.
+    pub const ELECTRONS: Color = Color(0x1c, 0x5a, 0xa6);
+    /// Holes, p-type.
+    pub const HOLES: Color = Color(0xb0, 0x32, 0x28);
+    /// Intrinsic density, mid-gap.
+    pub const INTRINSIC: Color = Color(0x59, 0x59, 0x59);
+    /// The Fermi level.
+    pub const FERMI: Color = Color(0x1b, 0x7a, 0x36);
+    /// Band edges.
+    pub const BAND: Color = Color(0x1a, 0x1a, 0x1a);
+    /// Colours for a list of species or models, in order.
+    pub const CYCLE: [Color; 6] = [
+        Color(0x1c, 0x5a, 0xa6),
+        Color(0xb0, 0x32, 0x28),
+        Color(0x1b, 0x7a, 0x36),
+        Color(0x7a, 0x3e, 0x9d),
+        Color(0x9a, 0x5b, 0x00),
+        Color(0x00, 0x74, 0x7a),
+    ];
+
+    /// The `i`-th colour of [`CYCLE`], wrapping.
+    pub fn nth(i: usize) -> Color {
+        CYCLE[i % CYCLE.len()]
+    }
+}
+
+/// One axis.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Axis {
+    /// Label with unit, e.g. `1000/T (1/K)`.
+    pub label: String,
+    /// Logarithmic (base 10) axis.
+    pub log: bool,
+    /// Fixed range in data units; `None` fits the data.
+    pub range: Option<(f64, f64)>,
+    /// Hide ticks and labels (the position axis of the band diagram has no meaning).
+    pub hidden: bool,
+}
+
+impl Axis {
+    /// A linear axis fitted to the data.
+    pub fn linear(label: &str) -> Axis {
+        Axis { label: label.into(), log: false, range: None, hidden: false }
+    }
+
+    /// A log axis fitted to the data.
+    pub fn log(label: &str) -> Axis {
+        Axis { label: label.into(), log: true, range: None, hidden: false }
+    }
+
+    /// The same axis with a fixed range.
+    pub fn with_range(mut self, lo: f64, hi: f64) -> Axis {
+        self.range = Some((lo, hi));
+        self
+    }
+
+    /// A data value on the drawn (possibly log10) scale; `None` if it cannot be drawn.
+    fn to_scale(&self, v: f64) -> Option<f64> {
+        let s = if self.log { if v > 0.0 { v.log10() } else { return None } } else { v };
+        s.is_finite().then_some(s)
+    }
+}
+
+/// Line style of a series.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Stroke {
+    /// Continuous line.
+    Solid,
+    /// Dashed line.
+    Dashed,
+}
+
+/// One curve (or, with two points, one level line).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Series {
+    /// Legend and CSV column name.
+    pub name: String,
+    /// Data points in data units.
+    pub points: Vec<(f64, f64)>,
+    /// Colour.
+    pub color: Color,
+    /// Stroke.
+    pub stroke: Stroke,
+    /// Text written at the right end of the curve (band diagram levels).
+    pub end_label: Option<String>,
+    /// Listed in the legend.
+    pub in_legend: bool,
+}
+
+impl Series {
+    /// A solid curve listed in the legend.
+    pub fn line(name: &str, points: Vec<(f64, f64)>, color: Color) -> Series {
+        Series { name: name.into(), points, color, stroke: Stroke::Solid, end_label: None, in_legend: true }
+    }
+
+    /// The same series dashed.
+    pub fn dashed(mut self) -> Series {
+        self.stroke = Stroke::Dashed;
+        self
+    }
+}
+
+/// An annotation that is not a data series.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Mark {
+    /// A vertical line across the plot at `x` (the current temperature).
+    Vertical {
+        /// Position in data units.
+        x: f64,
+        /// Text beside the line.
+        label: String,
+    },
+    /// A single emphasised point (the current sample on a curve).
+    Point {
+        /// x in data units.
+        x: f64,
+        /// y in data units.
+        y: f64,
+        /// Text beside the point.
+        label: String,
+        /// Colour.
+        color: Color,
+    },
+}
+
+/// Where the legend sits.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Corner {
+    /// Upper left.
+    TopLeft,
+    /// Upper right.
+    TopRight,
+    /// Lower left.
+    BottomLeft,
+    /// Lower right.
+    BottomRight,
+}
+
+/// Everything needed to draw a chart and export its data.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ChartSpec {
+    /// Title above the plot.
+    pub title: String,
+    /// File name stem for PNG and CSV downloads.
+    pub file_stem: String,
+    /// Horizontal axis.
+    pub x: Axis,
+    /// Vertical axis.
+    pub y: Axis,
+    /// Curves.
+    pub series: Vec<Series>,
+    /// Annotations.
+    pub marks: Vec<Mark>,
+    /// Legend position.
+    pub legend: Corner,
+}
+
+/// The drawn range of an axis over the spec's data, on the drawn scale.
+fn scale_range(axis: &Axis, values: impl Iterator<Item = f64>) -> Option<(f64, f64)> {
+    if let Some((lo, hi)) = axis.range {
+        return Some((axis.to_scale(lo)?, axis.to_scale(hi)?));
+    }
+    let (lo, hi) = values
+        .filter_map(|v| axis.to_scale(v))
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| (lo.min(v), hi.max(v)));
+    if !(lo.is_finite() && hi.is_finite()) {
+        return None;
+    }
+    // A flat curve still needs a visible range: half a decade or 5 % around the value.
+    let pad = if hi > lo { 0.04 * (hi - lo) } else if axis.log { 0.5 } else { 0.05 * lo.abs().max(1e-3) };
+    Some((lo - pad, hi + pad))
+}
+
+/// Splits a curve (on the drawn scale) into pieces inside `[lo, hi]` vertically, with the
+/// crossing points interpolated, so a curve leaving the plot ends at its edge.
+fn clip_vertically(points: &[(f64, f64)], lo: f64, hi: f64) -> Vec<Vec<(f64, f64)>> {
+    let inside = |y: f64| (lo..=hi).contains(&y);
+    let cross = |a: (f64, f64), b: (f64, f64)| {
+        let edge = if a.1.max(b.1) > hi && (a.1 > hi) != (b.1 > hi) { hi } else { lo };
+        let t = (edge - a.1) / (b.1 - a.1);
+        (a.0 + t * (b.0 - a.0), edge)
+    };
+    let mut pieces = Vec::new();
+    let mut current: Vec<(f64, f64)> = Vec::new();
+    let mut previous: Option<(f64, f64)> = None;
+    for &p in points {
+        match previous {
+            Some(q) if inside(q.1) && !inside(p.1) => {
+                current.push(cross(q, p));
+                pieces.push(std::mem::take(&mut current));
+            }
+            Some(q) if !inside(q.1) && inside(p.1) => {
+                current.push(cross(q, p));
+                current.push(p);
+            }
+            _ if inside(p.1) => current.push(p),
+            _ => {}
+        }
+        previous = Some(p);
+    }
+    if !current.is_empty() {
+        pieces.push(current);
+    }
+    pieces
+}
+
+/// The curves of a series on the drawn scale, clipped to the vertical range.
+fn drawn_pieces(spec: &ChartSpec, series: &Series, y_range: (f64, f64)) -> Vec<Vec<(f64, f64)>> {
+    let mut pieces = Vec::new();
+    let mut run = Vec::new();
+    // A point that cannot be drawn (zero on a log axis, NaN) breaks the curve.
+    for &(x, y) in &series.points {
+        match (spec.x.to_scale(x), spec.y.to_scale(y)) {
+            (Some(x), Some(y)) => run.push((x, y)),
+            _ => pieces.push(std::mem::take(&mut run)),
+        }
+    }
+    pieces.push(run);
+    pieces.iter().flat_map(|p| clip_vertically(p, y_range.0, y_range.1)).filter(|p| !p.is_empty()).collect()
+}
+
+/// Draws `spec` on `area`; `px` is the number of backend pixels per CSS pixel, so text,
+/// lines and margins keep their size on high-DPI screens.
+pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, spec: &ChartSpec, px: f64) -> Result<(), String> {
+    let err = |e: DrawingAreaErrorKind<DB::ErrorType>| format!("chart '{}': {e}", spec.title);
+    let size = |css: f64| (css * px).round() as u32;
+    let font = |css: f64| ("sans-serif", css * px);
+    area.fill(&WHITE).map_err(err)?;
+
+    let xs = spec.series.iter().flat_map(|s| s.points.iter().map(|p| p.0));
+    let ys = spec.series.iter().flat_map(|s| s.points.iter().map(|p| p.1));
+    let marks_x = spec.marks.iter().map(|m| match m {
+        Mark::Vertical { x, .. } | Mark::Point { x, .. } => *x,
+    });
+    let (Some(x_range), Some(y_range)) = (scale_range(&spec.x, xs.chain(marks_x)), scale_range(&spec.y, ys)) else {
+        let style = TextStyle::from(font(14.0)).color(&BLACK);
+        area.draw_text(&format!("{}: no data to draw", spec.title), &style, (size(12.0) as i32, size(12.0) as i32))
+            .map_err(err)?;
+        return Ok(());
+    };
+
+    let mut chart = ChartBuilder::on(area)
+        .margin(size(10.0))
+        .margin_right(size(if spec.series.iter().any(|s| s.end_label.is_some()) { 90.0 } else { 18.0 }))
+        .caption(&spec.title, font(15.0))
+        .x_label_area_size(size(if spec.x.hidden { 8.0 } else { 44.0 }))
+        .y_label_area_size(size(72.0))
+        .build_cartesian_2d(x_range.0..x_range.1, y_range.0..y_range.1)
+        .map_err(err)?;
+
+    let x_fmt = |v: &f64| if spec.x.log { format::log_tick(*v) } else { format::linear_tick(*v) };
+    let y_fmt = |v: &f64| if spec.y.log { format::log_tick(*v) } else { format::linear_tick(*v) };
+    let mut mesh = chart.configure_mesh();
+    mesh.x_desc(&spec.x.label)
+        .y_desc(&spec.y.label)
+        .x_label_formatter(&x_fmt)
+        .y_label_formatter(&y_fmt)
+        .x_labels(8)
+        .y_labels(8)
+        .label_style(font(12.0))
+        .axis_desc_style(font(13.0))
+        // Major grid lines only: the minor ones crowd a chart this size.
+        .light_line_style(TRANSPARENT)
+        .bold_line_style(RGBColor(0xdd, 0xdd, 0xdd))
+        .axis_style(ShapeStyle::from(&RGBColor(0x33, 0x33, 0x33)).stroke_width(size(1.0).max(1)));
+    if spec.x.hidden {
+        mesh.disable_x_axis().disable_x_mesh();
+    }
+    mesh.draw().map_err(err)?;
+
+    let line_width = size(2.0).max(1);
+    for series in &spec.series {
+        let style = ShapeStyle::from(&series.color.rgb()).stroke_width(line_width);
+        let pieces = drawn_pieces(spec, series, y_range);
+        let mut first = true;
+        for piece in &pieces {
+            let annotation = match series.stroke {
+                Stroke::Solid => chart.draw_series(LineSeries::new(piece.iter().copied(), style)).map_err(err)?,
+                Stroke::Dashed => chart
+                    .draw_series(DashedLineSeries::new(piece.iter().copied(), size(7.0), size(4.0), style))
+                    .map_err(err)?,
+            };
+            if first && series.in_legend {
+                let color = series.color.rgb();
+                let dashed = series.stroke == Stroke::Dashed;
+                let (w, seg) = (line_width, size(20.0) as i32);
+                annotation.label(series.name.as_str()).legend(move |(x, y)| {
+                    let s = ShapeStyle::from(&color).stroke_width(w);
+                    if dashed {
+                        EmptyElement::at((x, y))
+                            + PathElement::new(vec![(0, 0), (seg / 3, 0)], s)
+                            + PathElement::new(vec![(2 * seg / 3, 0), (seg, 0)], s)
+                    } else {
+                        EmptyElement::at((x, y)) + PathElement::new(vec![(0, 0), (seg, 0)], s)
+                            + PathElement::new(vec![(0, 0), (0, 0)], s)
+                    }
+                });
+                first = false;
+            }
+        }
+        if let (Some(text), Some(last)) = (&series.end_label, pieces.last().and_then(|p| p.last())) {
+            let color = series.color.rgb();
+            let style = TextStyle::from(font(12.0)).color(&color);
+            let pos = chart.backend_coord(last);
+            area.draw_text(text, &style, (pos.0 + size(6.0) as i32, pos.1 - size(7.0) as i32)).map_err(err)?;
+        }
+    }
+
+    for mark in &spec.marks {
+        match mark {
+            Mark::Vertical { x, label } => {
+                let Some(x) = spec.x.to_scale(*x) else { continue };
+                let style = ShapeStyle::from(&RGBColor(0x44, 0x44, 0x44)).stroke_width(size(1.0).max(1));
+                chart
+                    .draw_series(DashedLineSeries::new([(x, y_range.0), (x, y_range.1)], size(4.0), size(4.0), style))
+                    .map_err(err)?;
+                let pos = chart.backend_coord(&(x, y_range.1));
+                let text = TextStyle::from(font(12.0)).color(&RGBColor(0x22, 0x22, 0x22));
+                area.draw_text(label, &text, (pos.0 + size(4.0) as i32, pos.1 + size(3.0) as i32)).map_err(err)?;
+            }
+            Mark::Point { x, y, label, color } => {
+                let (Some(x), Some(y)) = (spec.x.to_scale(*x), spec.y.to_scale(*y)) else { continue };
+                let c = color.rgb();
+                chart
+                    .draw_series([
+                        Circle::new((x, y), size(6.0), ShapeStyle::from(&WHITE).filled()),
+                        Circle::new((x, y), size(6.0), ShapeStyle::from(&c).stroke_width(size(2.5).max(1))),
+                    ])
+                    .map_err(err)?;
+                let pos = chart.backend_coord(&(x, y));
+                let text = TextStyle::from(font(12.0)).color(&c);
+                area.draw_text(label, &text, (pos.0 + size(9.0) as i32, pos.1 - size(18.0) as i32)).map_err(err)?;
+            }
+        }
+    }
+
+    if spec.series.iter().any(|s| s.in_legend) {
+        let position = match spec.legend {
+            Corner::TopLeft => SeriesLabelPosition::UpperLeft,
+            Corner::TopRight => SeriesLabelPosition::UpperRight,
+            Corner::BottomLeft => SeriesLabelPosition::LowerLeft,
+            Corner::BottomRight => SeriesLabelPosition::LowerRight,
+        };
+        chart
+            .configure_series_labels()
+            .position(position)
+            .margin(size(8.0))
+            .legend_area_size(size(26.0))
+            .label_font(font(12.0))
+            .background_style(WHITE.mix(0.9))
+            .border_style(RGBColor(0x99, 0x99, 0x99))
+            .draw()
+            .map_err(err)?;
+    }
+    Ok(())
+}
+
+/// Quotes a CSV cell when it holds a comma, quote or line break.
+fn csv_cell(text: &str) -> String {
+    if text.contains([',', '"', '\n', '\r']) { format!("\"{}\"", text.replace('"', "\"\"")) } else { text.into() }
+}
+
+/// The chart's data as CSV. Series that share their x values become columns of one table
+/// (what a spreadsheet wants); otherwise one row per point with the series name.
+pub fn to_csv(spec: &ChartSpec) -> String {
+    let data: Vec<&Series> = spec.series.iter().filter(|s| !s.points.is_empty()).collect();
+    let mut out = String::new();
+    let shared_x = data.windows(2).all(|w| {
+        w[0].points.len() == w[1].points.len() && w[0].points.iter().zip(&w[1].points).all(|(a, b)| a.0 == b.0)
+    });
+    if shared_x && !data.is_empty() {
+        let mut header = vec![csv_cell(&spec.x.label)];
+        header.extend(data.iter().map(|s| csv_cell(&format!("{} [{}]", s.name, spec.y.label))));
+        out.push_str(&header.join(","));
+        out.push('\n');
+        for (i, (x, _)) in data[0].points.iter().enumerate() {
+            let mut row = vec![format::csv_number(*x)];
+            row.extend(data.iter().map(|s| format::csv_number(s.points[i].1)));
+            out.push_str(&row.join(","));
+            out.push('\n');
+        }
+    } else {
+        out.push_str(&format!("series,{},{}\n", csv_cell(&spec.x.label), csv_cell(&spec.y.label)));
+        for s in &data {
+            for (x, y) in &s.points {
+                out.push_str(&format!("{},{},{}\n", csv_cell(&s.name), format::csv_number(*x), format::csv_number(*y)));
+            }
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn spec(series: Vec<Series>) -> ChartSpec {
+        ChartSpec {
+            title: "t".into(),
+            file_stem: "t".into(),
+            x: Axis::linear("T (K)"),
+            y: Axis::log("n (cm^-3)"),
+            series,
+            marks: vec![],
+            legend: Corner::TopRight,
+        }
+    }
+
+    #[test]
+    fn csv_uses_columns_when_x_is_shared() {
+        let s = spec(vec![
+            Series::line("n", vec![(100.0, 1e15), (200.0, 2e15)], palette::ELECTRONS),
+            Series::line("p, holes", vec![(100.0, 1.0), (200.0, 2.5)], palette::HOLES),
+        ]);
+        assert_eq!(
+            to_csv(&s),
+            "T (K),n [n (cm^-3)],\"p, holes [n (cm^-3)]\"\n1e2,1e15,1e0\n2e2,2e15,2.5e0\n"
+        );
+    }
+
+    #[test]
+    fn csv_uses_rows_when_x_differs() {
+        let s = spec(vec![
+            Series::line("a", vec![(1.0, 2.0)], palette::ELECTRONS),
+            Series::line("b", vec![(3.0, 4.0), (5.0, 6.0)], palette::HOLES),
+        ]);
+        assert_eq!(to_csv(&s), "series,T (K),n (cm^-3)\na,1e0,2e0\nb,3e0,4e0\nb,5e0,6e0\n");
+    }
+
+    #[test]
+    fn csv_of_an_empty_chart_is_empty() {
+        assert_eq!(to_csv(&spec(vec![])), "series,T (K),n (cm^-3)\n");
+    }
+
+    #[test]
+    fn log_axis_range_ignores_values_it_cannot_draw() {
+        let axis = Axis::log("n");
+        let (lo, hi) = scale_range(&axis, [0.0, -1.0, 1e10, 1e20, f64::NAN].into_iter()).expect("range");
+        assert!(lo < 10.0 && lo > 9.0 && hi > 20.0 && hi < 21.0, "{lo} {hi}");
+        assert_eq!(scale_range(&axis, [0.0].into_iter()), None);
+    }
+
+    #[test]
+    fn flat_data_gets_a_visible_range() {
+        let (lo, hi) = scale_range(&Axis::linear("E"), [0.5, 0.5].into_iter()).expect("range");
+        assert!(lo < 0.5 && hi > 0.5);
+        let (lo, hi) = scale_range(&Axis::log("n"), [1e15].into_iter()).expect("range");
+        assert!(lo < 15.0 && hi > 15.0);
+    }
+
+    #[test]
+    fn clipping_interpolates_the_edge_crossing() {
+        let pieces = clip_vertically(&[(0.0, 5.0), (1.0, -5.0), (2.0, -5.0), (3.0, 5.0)], 0.0, 10.0);
+        assert_eq!(pieces, vec![vec![(0.0, 5.0), (0.5, 0.0)], vec![(2.5, 0.0), (3.0, 5.0)]]);
+        let pieces = clip_vertically(&[(0.0, 5.0), (1.0, 15.0)], 0.0, 10.0);
+        assert_eq!(pieces, vec![vec![(0.0, 5.0), (0.5, 10.0)]]);
+        assert!(clip_vertically(&[(0.0, -1.0), (1.0, -2.0)], 0.0, 10.0).is_empty());
+    }
+
+    #[test]
+    fn undrawable_points_break_the_curve() {
+        let s = spec(vec![Series::line("n", vec![(1.0, 1e3), (2.0, 0.0), (3.0, 1e4), (4.0, 1e5)], palette::ELECTRONS)]);
+        let pieces = drawn_pieces(&s, &s.series[0], (0.0, 10.0));
+        assert_eq!(pieces, vec![vec![(1.0, 3.0)], vec![(3.0, 4.0), (4.0, 5.0)]]);
+    }
+}

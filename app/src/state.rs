@@ -1,0 +1,566 @@
+//! The workbench inputs as typed (plain text, no parsed numbers), with their URL-query
+//! and saved-state encodings. Everything here is plain Rust, tested without a browser.
+//!
+//! Inputs are kept exactly as the engineer typed them, so a link or a reload brings
+//! back the same text, including a field that is still invalid.
+
+use serde::{Deserialize, Serialize};
+
+/// The three views of the workbench.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum View {
+    /// Carriers, Fermi level and resistivity at one temperature.
+    #[default]
+    Carriers,
+    /// The same doping over a temperature range.
+    Sweep,
+    /// Resistivity and density conversion, and the four-point probe.
+    Resistivity,
+}
+
+impl View {
+    /// Every view, in tab order.
+    pub const ALL: [View; 3] = [View::Carriers, View::Sweep, View::Resistivity];
+
+    /// The key used in the URL (`view=`).
+    pub fn key(self) -> &'static str {
+        match self {
+            View::Carriers => "carriers",
+            View::Sweep => "sweep",
+            View::Resistivity => "resistivity",
+        }
+    }
+
+    /// The tab title.
+    pub fn title(self) -> &'static str {
+        match self {
+            View::Carriers => "Carriers at one temperature",
+            View::Sweep => "Temperature sweep",
+            View::Resistivity => "Resistivity & probe",
+        }
+    }
+
+    /// The view for a URL key.
+    pub fn from_key(key: &str) -> Option<View> {
+        View::ALL.into_iter().find(|v| v.key() == key)
+    }
+}
+
+/// One dopant row: a species symbol and its density as typed.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct DopantRow {
+    /// Species symbol as the material lists it (`P`, `B`, ...).
+    pub species: String,
+    /// Density as typed (`1e15`, `2.3x10^15 cm^-3`).
+    pub density: String,
+}
+
+impl DopantRow {
+    /// A row for `species` at `density` (both as text).
+    pub fn new(species: &str, density: &str) -> DopantRow {
+        DopantRow { species: species.into(), density: density.into() }
+    }
+}
+
+/// Inputs of the carriers view (and the doping the sweep view reuses).
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct CarrierInputs {
+    /// Material id (`si`, `ge`, ...).
+    pub material: String,
+    /// Temperature as typed (`300`, `300 K`, `27 C`).
+    pub temperature: String,
+    /// Donor and acceptor rows.
+    pub dopants: Vec<DopantRow>,
+    /// Intrinsic-density model key.
+    pub intrinsic_model: String,
+    /// Band-gap narrowing on or off.
+    pub band_gap_narrowing: bool,
+    /// Mobility model key.
+    pub mobility_model: String,
+    /// Layer or wafer thickness as typed, for the sheet resistance.
+    pub thickness: String,
+}
+
+impl Default for CarrierInputs {
+    fn default() -> Self {
+        CarrierInputs {
+            material: "si".into(),
+            temperature: "300 K".into(),
+            dopants: vec![DopantRow::new("P", "1e15 cm^-3")],
+            intrinsic_model: "dos".into(),
+            band_gap_narrowing: false,
+            mobility_model: String::new(),
+            thickness: "525 um".into(),
+        }
+    }
+}
+
+/// Inputs of the temperature-sweep view.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct SweepInputs {
+    /// Lowest temperature as typed.
+    pub from: String,
+    /// Highest temperature as typed.
+    pub to: String,
+    /// Number of temperatures as typed.
+    pub points: String,
+}
+
+impl Default for SweepInputs {
+    fn default() -> Self {
+        SweepInputs { from: "50 K".into(), to: "700 K".into(), points: "131".into() }
+    }
+}
+
+/// Which quantity the engineer gives in the conversion panel.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum Given {
+    /// Resistivity given, density wanted.
+    #[default]
+    Resistivity,
+    /// Density given, resistivity wanted.
+    Density,
+}
+
+impl Given {
+    /// The key used in the URL.
+    pub fn key(self) -> &'static str {
+        match self {
+            Given::Resistivity => "rho",
+            Given::Density => "n",
+        }
+    }
+
+    /// The value for a URL key.
+    pub fn from_key(key: &str) -> Option<Given> {
+        match key {
+            "rho" => Some(Given::Resistivity),
+            "n" => Some(Given::Density),
+            _ => None,
+        }
+    }
+}
+
+/// Inputs of the resistivity and probe view.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct ConversionInputs {
+    /// Which quantity is given.
+    pub given: Given,
+    /// The given resistivity or density as typed.
+    pub value: String,
+    /// Dopant species of the silicon sample (`B`, `P`, `As`, ...).
+    pub dopant: String,
+    /// Probe current as typed (A by default, `mA`, `uA`).
+    pub probe_current: String,
+    /// Probe voltage as typed (V by default, `mV`, `uV`).
+    pub probe_voltage: String,
+    /// Probe pin spacing as typed.
+    pub probe_spacing: String,
+    /// Sample thickness as typed.
+    pub sample_thickness: String,
+    /// Wafer diameter as typed.
+    pub wafer_diameter: String,
+    /// Sample temperature during the probe measurement, as typed.
+    pub probe_temperature: String,
+}
+
+impl Default for ConversionInputs {
+    fn default() -> Self {
+        ConversionInputs {
+            given: Given::Resistivity,
+            value: "10 ohm-cm".into(),
+            dopant: "B".into(),
+            probe_current: "1 mA".into(),
+            probe_voltage: "4.5 mV".into(),
+            probe_spacing: "1 mm".into(),
+            sample_thickness: "525 um".into(),
+            wafer_diameter: "150 mm".into(),
+            probe_temperature: "23 C".into(),
+        }
+    }
+}
+
+/// Everything the workbench needs to reproduce a calculation.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub struct Workbench {
+    /// The view on screen.
+    pub view: View,
+    /// Carriers view inputs.
+    pub carriers: CarrierInputs,
+    /// Sweep view inputs.
+    pub sweep: SweepInputs,
+    /// Resistivity view inputs.
+    pub conversion: ConversionInputs,
+}
+
+/// The version written into saved states; a saved state of another version is not read.
+pub const SAVED_STATE_VERSION: u32 = 1;
+
+#[derive(Serialize, Deserialize)]
+struct Saved {
+    version: u32,
+    workbench: Workbench,
+}
+
+/// The state as the JSON text kept in the browser's storage.
+pub fn to_saved_json(workbench: &Workbench) -> String {
+    let saved = Saved { version: SAVED_STATE_VERSION, workbench: workbench.clone() };
+    serde_json::to_string(&saved).unwrap_or_default()
+}
+
+/// Reads a saved state; Err with a sentence for the notice when it is unreadable.
+pub fn from_saved_json(text: &str) -> Result<Workbench, String> {
+    let saved: Saved = serde_json::from_str(text)
+        .map_err(|e| format!("the saved inputs could not be read ({e}); the defaults are shown"))?;
+    if saved.version != SAVED_STATE_VERSION {
+        return Err(format!(
+            "the saved inputs are from format version {} (this page reads {}); the defaults are shown",
+            saved.version, SAVED_STATE_VERSION
+        ));
+    }
+    Ok(saved.workbench)
+}
+
+// URL query keys. Short, lower case, stable: links in e-mails and lab notes depend on them.
+const K_VIEW: &str = "view";
+const K_MATERIAL: &str = "mat";
+const K_TEMPERATURE: &str = "t";
+const K_DOPANT: &str = "dop";
+const K_INTRINSIC: &str = "ni";
+const K_BGN: &str = "bgn";
+const K_MOBILITY: &str = "mob";
+const K_THICKNESS: &str = "thick";
+const K_SWEEP_FROM: &str = "from";
+const K_SWEEP_TO: &str = "to";
+const K_SWEEP_POINTS: &str = "pts";
+const K_GIVEN: &str = "given";
+const K_VALUE: &str = "val";
+const K_CONV_DOPANT: &str = "species";
+const K_PROBE_I: &str = "i";
+const K_PROBE_V: &str = "v";
+const K_PROBE_S: &str = "s";
+const K_PROBE_T: &str = "w";
+const K_PROBE_D: &str = "dia";
+const K_PROBE_TEMP: &str = "tp";
+
+/// Every key this page writes; a query with none of them is not a workbench link.
+const ALL_KEYS: [&str; 20] = [
+    K_VIEW,
+    K_MATERIAL,
+    K_TEMPERATURE,
+    K_DOPANT,
+    K_INTRINSIC,
+    K_BGN,
+    K_MOBILITY,
+    K_THICKNESS,
+    K_SWEEP_FROM,
+    K_SWEEP_TO,
+    K_SWEEP_POINTS,
+    K_GIVEN,
+    K_VALUE,
+    K_CONV_DOPANT,
+    K_PROBE_I,
+    K_PROBE_V,
+    K_PROBE_S,
+    K_PROBE_T,
+    K_PROBE_D,
+    K_PROBE_TEMP,
+];
+
+/// The state as a URL query string (without the leading `?`). Every field is written,
+/// so a link carries the whole calculation.
+pub fn to_query(w: &Workbench) -> String {
+    let c = &w.carriers;
+    let s = &w.sweep;
+    let v = &w.conversion;
+    let mut pairs: Vec<(&str, String)> = vec![
+        (K_VIEW, w.view.key().into()),
+        (K_MATERIAL, c.material.clone()),
+        (K_TEMPERATURE, c.temperature.clone()),
+    ];
+    // One `dop` pair per row: `species,density`. Species symbols hold no comma, so
+    // the first comma splits the pair even if the density text has one.
+    pairs.extend(c.dopants.iter().map(|d| (K_DOPANT, format!("{},{}", d.species, d.density))));
+    pairs.extend([
+        (K_INTRINSIC, c.intrinsic_model.clone()),
+        (K_BGN, if c.band_gap_narrowing { "1" } else { "0" }.into()),
+        (K_MOBILITY, c.mobility_model.clone()),
+        (K_THICKNESS, c.thickness.clone()),
+        (K_SWEEP_FROM, s.from.clone()),
+        (K_SWEEP_TO, s.to.clone()),
+        (K_SWEEP_POINTS, s.points.clone()),
+        (K_GIVEN, v.given.key().into()),
+        (K_VALUE, v.value.clone()),
+        (K_CONV_DOPANT, v.dopant.clone()),
+        (K_PROBE_I, v.probe_current.clone()),
+        (K_PROBE_V, v.probe_voltage.clone()),
+        (K_PROBE_S, v.probe_spacing.clone()),
+        (K_PROBE_T, v.sample_thickness.clone()),
+        (K_PROBE_D, v.wafer_diameter.clone()),
+        (K_PROBE_TEMP, v.probe_temperature.clone()),
+    ]);
+    pairs
+        .iter()
+        .map(|(k, v)| format!("{k}={}", percent_encode(v)))
+        .collect::<Vec<_>>()
+        .join("&")
+}
+
+/// Whether a query string carries workbench inputs at all.
+pub fn is_workbench_query(query: &str) -> bool {
+    parse_pairs(query).iter().any(|(k, _)| ALL_KEYS.contains(&k.as_str()))
+}
+
+/// Reads a URL query. Fields missing from it take their defaults; values that cannot be
+/// understood are replaced by defaults and reported in the returned notices.
+pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
+    let mut w = Workbench::default();
+    let mut notices = Vec::new();
+    let mut dopants: Option<Vec<DopantRow>> = None;
+    for (key, value) in parse_pairs(query) {
+        let c = &mut w.carriers;
+        let s = &mut w.sweep;
+        let v = &mut w.conversion;
+        match key.as_str() {
+            K_VIEW => match View::from_key(&value) {
+                Some(view) => w.view = view,
+                None => notices.push(format!("link: view '{value}' is unknown; showing the carriers view")),
+            },
+            K_MATERIAL => c.material = value,
+            K_TEMPERATURE => c.temperature = value,
+            K_DOPANT => {
+                let row = match value.split_once(',') {
+                    Some((species, density)) => DopantRow::new(species.trim(), density),
+                    None => DopantRow::new(value.trim(), ""),
+                };
+                dopants.get_or_insert_with(Vec::new).push(row);
+            }
+            K_INTRINSIC => c.intrinsic_model = value,
+            K_BGN => match value.as_str() {
+                "1" | "on" | "true" => c.band_gap_narrowing = true,
+                "0" | "off" | "false" => c.band_gap_narrowing = false,
+                _ => notices.push(format!("link: bgn '{value}' is not 0 or 1; band-gap narrowing is off")),
+            },
+            K_MOBILITY => c.mobility_model = value,
+            K_THICKNESS => c.thickness = value,
+            K_SWEEP_FROM => s.from = value,
+            K_SWEEP_TO => s.to = value,
+            K_SWEEP_POINTS => s.points = value,
+            K_GIVEN => match Given::from_key(&value) {
+                Some(g) => v.given = g,
+                None => notices.push(format!("link: given '{value}' is not rho or n; resistivity is given")),
+            },
+            K_VALUE => v.value = value,
+            K_CONV_DOPANT => v.dopant = value,
+            K_PROBE_I => v.probe_current = value,
+            K_PROBE_V => v.probe_voltage = value,
+            K_PROBE_S => v.probe_spacing = value,
+            K_PROBE_T => v.sample_thickness = value,
+            K_PROBE_D => v.wafer_diameter = value,
+            K_PROBE_TEMP => v.probe_temperature = value,
+            _ => {} // Keys of other tools sharing the URL are none of our business.
+        }
+    }
+    if let Some(rows) = dopants {
+        w.carriers.dopants = rows;
+    }
+    (w, notices)
+}
+
+/// The state a page load starts from: a workbench link wins (it is what was shared),
+/// then the saved inputs, then the defaults. The notices say what was set aside and why.
+pub fn initial(query: &str, saved: Option<&str>) -> (Workbench, Vec<String>) {
+    if is_workbench_query(query) {
+        return from_query(query);
+    }
+    match saved.map(from_saved_json) {
+        None => (Workbench::default(), Vec::new()),
+        Some(Ok(w)) => (w, Vec::new()),
+        Some(Err(notice)) => (Workbench::default(), vec![notice]),
+    }
+}
+
+/// Splits `a=1&b=2` into decoded pairs, in order.
+fn parse_pairs(query: &str) -> Vec<(String, String)> {
+    query
+        .trim_start_matches('?')
+        .split('&')
+        .filter(|p| !p.is_empty())
+        .map(|p| match p.split_once('=') {
+            Some((k, v)) => (percent_decode(k), percent_decode(v)),
+            None => (percent_decode(p), String::new()),
+        })
+        .collect()
+}
+
+/// Percent-encodes everything except RFC 3986 unreserved characters.
+pub fn percent_encode(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    for b in text.bytes() {
+        if b.is_ascii_alphanumeric() || matches!(b, b'-' | b'.' | b'_' | b'~') {
+            out.push(b as char);
+        } else {
+            out.push_str(&format!("%{b:02X}"));
+        }
+    }
+    out
+}
+
+/// Decodes `%XX` escapes and `+` (space, as forms write it); malformed escapes stay as typed.
+pub fn percent_decode(text: &str) -> String {
+    let bytes = text.as_bytes();
+    let mut out = Vec::with_capacity(bytes.len());
+    let mut i = 0;
+    while i < bytes.len() {
+        match bytes[i] {
+            b'+' => {
+                out.push(b' ');
+                i += 1;
+            }
+            b'%' if i + 2 < bytes.len() => {
+                let hex = std::str::from_utf8(&bytes[i + 1..i + 3]).ok();
+                match hex.and_then(|h| u8::from_str_radix(h, 16).ok()) {
+                    Some(b) => {
+                        out.push(b);
+                        i += 3;
+                    }
+                    None => {
+                        out.push(b'%');
+                        i += 1;
+                    }
+                }
+            }
+            b => {
+                out.push(b);
+                i += 1;
+            }
+        }
+    }
+    String::from_utf8_lossy(&out).into_owned()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn sample() -> Workbench {
+        Workbench {
+            view: View::Sweep,
+            carriers: CarrierInputs {
+                material: "ge".into(),
+                temperature: "27 C".into(),
+                dopants: vec![
+                    DopantRow::new("As", "2.3x10^15 cm^-3"),
+                    DopantRow::new("B", "1,5e14"),
+                    DopantRow::new("Ga", ""),
+                ],
+                intrinsic_model: "model a".into(),
+                band_gap_narrowing: true,
+                mobility_model: "m&b=c".into(),
+                thickness: "0.5 mm".into(),
+            },
+            sweep: SweepInputs { from: "77".into(), to: "500 K".into(), points: "x".into() },
+            conversion: ConversionInputs {
+                given: Given::Density,
+                value: "1E16 m^-3 #?%".into(),
+                dopant: "P".into(),
+                probe_current: "0.1".into(),
+                probe_voltage: "μV 3".into(),
+                probe_spacing: "1.59 mm".into(),
+                sample_thickness: "380 um".into(),
+                wafer_diameter: "200 mm".into(),
+                probe_temperature: "25 C".into(),
+            },
+        }
+    }
+
+    #[test]
+    fn query_round_trips_every_field() {
+        let w = sample();
+        let (back, notices) = from_query(&to_query(&w));
+        assert_eq!(back, w);
+        assert!(notices.is_empty(), "{notices:?}");
+    }
+
+    #[test]
+    fn default_state_round_trips_through_query_and_saved_json() {
+        let w = Workbench::default();
+        assert_eq!(from_query(&to_query(&w)).0, w);
+        assert_eq!(from_saved_json(&to_saved_json(&w)), Ok(w));
+    }
+
+    #[test]
+    fn saved_json_round_trips() {
+        let w = sample();
+        assert_eq!(from_saved_json(&to_saved_json(&w)), Ok(w));
+    }
+
+    #[test]
+    fn corrupt_saved_state_is_reported() {
+        for bad in ["", "{", "null", "{\"version\":1}", "[1,2]", "{\"version\":1,\"workbench\":{\"view\":\"Nope\"}}"] {
+            let err = from_saved_json(bad).expect_err(bad);
+            assert!(err.contains("defaults"), "{err}");
+        }
+    }
+
+    #[test]
+    fn saved_state_of_another_version_is_refused() {
+        let text = to_saved_json(&sample()).replacen("\"version\":1", "\"version\":99", 1);
+        let err = from_saved_json(&text).expect_err("version 99");
+        assert!(err.contains("99"), "{err}");
+    }
+
+    #[test]
+    fn missing_keys_take_defaults_and_bad_keys_are_noticed() {
+        let (w, notices) = from_query("view=nowhere&t=350&bgn=maybe&given=x&utm_source=mail");
+        assert_eq!(w.view, View::Carriers);
+        assert_eq!(w.carriers.temperature, "350");
+        assert_eq!(w.carriers.dopants, CarrierInputs::default().dopants);
+        assert!(!w.carriers.band_gap_narrowing);
+        assert_eq!(notices.len(), 3, "{notices:?}");
+        assert!(notices[0].contains("nowhere"));
+    }
+
+    #[test]
+    fn a_link_wins_over_saved_inputs_which_win_over_defaults() {
+        let saved = to_saved_json(&sample());
+        let (w, notices) = initial("t=77", Some(&saved));
+        assert_eq!(w.carriers.temperature, "77");
+        assert_eq!(w.carriers.material, "si", "fields missing from a link take defaults");
+        assert!(notices.is_empty());
+        assert_eq!(initial("", Some(&saved)), (sample(), vec![]));
+        assert_eq!(initial("", None), (Workbench::default(), vec![]));
+        let (w, notices) = initial("?utm=1", Some("{not json"));
+        assert_eq!(w, Workbench::default());
+        assert_eq!(notices.len(), 1);
+        assert!(notices[0].contains("could not be read"), "{notices:?}");
+    }
+
+    #[test]
+    fn recognises_workbench_links() {
+        assert!(is_workbench_query("?view=sweep"));
+        assert!(is_workbench_query("a=1&t=300"));
+        assert!(!is_workbench_query(""));
+        assert!(!is_workbench_query("?utm_source=x"));
+    }
+
+    #[test]
+    fn percent_coding_round_trips_and_tolerates_junk() {
+        for text in ["", "a b", "1e15 cm^-3", "%", "%4", "%zz", "ohm·cm", "a+b", "&=?#"] {
+            assert_eq!(percent_decode(&percent_encode(text)), text);
+        }
+        assert_eq!(percent_decode("a+b%20c"), "a b c");
+        assert_eq!(percent_decode("100%"), "100%");
+        assert_eq!(percent_decode("%4"), "%4");
+        assert_eq!(percent_decode("%zz"), "%zz");
+    }
+
+    #[test]
+    fn dopant_rows_keep_their_order_and_text() {
+        let (w, _) = from_query("dop=B,1e16&dop=P,2%2C0e15&dop=Sb");
+        assert_eq!(
+            w.carriers.dopants,
+            vec![DopantRow::new("B", "1e16"), DopantRow::new("P", "2,0e15"), DopantRow::new("Sb", "")]
+        );
+    }
+}
