@@ -24,7 +24,9 @@ pub fn query() -> String {
 
 /// Replaces the query string without adding a history entry (typing is not navigation).
 pub fn replace_query(query: &str) {
-    let Some(history) = window().and_then(|w| w.history().ok()) else { return };
+    let Some(history) = window().and_then(|w| w.history().ok()) else {
+        return;
+    };
     let _ = history.replace_state_with_url(&JsValue::NULL, "", Some(&format!("?{query}")));
 }
 
@@ -46,7 +48,10 @@ pub fn save(text: &str) {
 
 /// Milliseconds since page load, for the redraw timing.
 pub fn now_ms() -> f64 {
-    window().and_then(|w| w.performance()).map(|p| p.now()).unwrap_or(0.0)
+    window()
+        .and_then(|w| w.performance())
+        .map(|p| p.now())
+        .unwrap_or(0.0)
 }
 
 /// Publishes the latest redraw time as `data-redraw-ms` on `<body>` for benchmarks.
@@ -59,7 +64,10 @@ pub fn publish_redraw_ms(ms: f64) {
 /// Draws `spec` on `canvas`, sizing the backing store by the device pixel ratio so the
 /// chart stays crisp on high-DPI screens. The CSS size is left to the stylesheet.
 pub fn draw_chart(canvas: &HtmlCanvasElement, spec: &ChartSpec) -> Result<(), String> {
-    let ratio = window().map(|w| w.device_pixel_ratio()).unwrap_or(1.0).max(1.0);
+    let ratio = window()
+        .map(|w| w.device_pixel_ratio())
+        .unwrap_or(1.0)
+        .max(1.0);
     // A canvas not laid out yet (hidden tab) reports 0; draw at a sensible size anyway.
     let css_width = match canvas.client_width() {
         w if w > 0 => f64::from(w),
@@ -69,17 +77,22 @@ pub fn draw_chart(canvas: &HtmlCanvasElement, spec: &ChartSpec) -> Result<(), St
         h if h > 0 => f64::from(h),
         _ => 360.0,
     };
-    let (width, height) = ((css_width * ratio).round() as u32, (css_height * ratio).round() as u32);
+    let (width, height) = (
+        (css_width * ratio).round() as u32,
+        (css_height * ratio).round() as u32,
+    );
     if canvas.width() != width {
         canvas.set_width(width);
     }
     if canvas.height() != height {
         canvas.set_height(height);
     }
-    let backend = CanvasBackend::with_canvas_object(canvas.clone()).ok_or("the canvas has no 2d context")?;
+    let backend =
+        CanvasBackend::with_canvas_object(canvas.clone()).ok_or("the canvas has no 2d context")?;
     let area = backend.into_drawing_area();
     chart::draw(&area, spec, ratio)?;
-    area.present().map_err(|e| format!("chart '{}': {e}", spec.title))
+    area.present()
+        .map_err(|e| format!("chart '{}': {e}", spec.title))
 }
 
 /// Starts a download of `url` under `file_name`.
@@ -101,7 +114,9 @@ fn download(url: &str, file_name: &str) -> Result<(), String> {
 
 /// Downloads the canvas as a PNG image.
 pub fn download_png(canvas: &HtmlCanvasElement, file_stem: &str) -> Result<(), String> {
-    let url = canvas.to_data_url().map_err(|_| "the chart cannot be exported (canvas is tainted)")?;
+    let url = canvas
+        .to_data_url()
+        .map_err(|_| "the chart cannot be exported (canvas is tainted)")?;
     download(&url, &format!("{file_stem}.png"))
 }
 
@@ -112,7 +127,8 @@ pub fn download_text(text: &str, mime: &str, file_name: &str) -> Result<(), Stri
     options.set_type(mime);
     let blob = web_sys::Blob::new_with_str_sequence_and_options(&parts, &options)
         .map_err(|_| "cannot build the file")?;
-    let url = web_sys::Url::create_object_url_with_blob(&blob).map_err(|_| "cannot build the file")?;
+    let url =
+        web_sys::Url::create_object_url_with_blob(&blob).map_err(|_| "cannot build the file")?;
     let result = download(&url, file_name);
     let _ = web_sys::Url::revoke_object_url(&url);
     result

@@ -66,12 +66,22 @@ pub struct Axis {
 impl Axis {
     /// A linear axis fitted to the data.
     pub fn linear(label: &str) -> Axis {
-        Axis { label: label.into(), log: false, range: None, hidden: false }
+        Axis {
+            label: label.into(),
+            log: false,
+            range: None,
+            hidden: false,
+        }
     }
 
     /// A log axis fitted to the data.
     pub fn log(label: &str) -> Axis {
-        Axis { label: label.into(), log: true, range: None, hidden: false }
+        Axis {
+            label: label.into(),
+            log: true,
+            range: None,
+            hidden: false,
+        }
     }
 
     /// The same axis with a fixed range.
@@ -82,7 +92,11 @@ impl Axis {
 
     /// A data value on the drawn (possibly log10) scale; `None` if it cannot be drawn.
     fn to_scale(&self, v: f64) -> Option<f64> {
-        let s = if self.log { if v > 0.0 { v.log10() } else { return None } } else { v };
+        let s = if self.log {
+            if v > 0.0 { v.log10() } else { return None }
+        } else {
+            v
+        };
         s.is_finite().then_some(s)
     }
 }
@@ -116,7 +130,14 @@ pub struct Series {
 impl Series {
     /// A solid curve listed in the legend.
     pub fn line(name: &str, points: Vec<(f64, f64)>, color: Color) -> Series {
-        Series { name: name.into(), points, color, stroke: Stroke::Solid, end_label: None, in_legend: true }
+        Series {
+            name: name.into(),
+            points,
+            color,
+            stroke: Stroke::Solid,
+            end_label: None,
+            in_legend: true,
+        }
     }
 
     /// The same series dashed.
@@ -188,12 +209,20 @@ fn scale_range(axis: &Axis, values: impl Iterator<Item = f64>) -> Option<(f64, f
     }
     let (lo, hi) = values
         .filter_map(|v| axis.to_scale(v))
-        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| (lo.min(v), hi.max(v)));
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
+            (lo.min(v), hi.max(v))
+        });
     if !(lo.is_finite() && hi.is_finite()) {
         return None;
     }
     // A flat curve still needs a visible range: half a decade or 5 % around the value.
-    let pad = if hi > lo { 0.04 * (hi - lo) } else if axis.log { 0.5 } else { 0.05 * lo.abs().max(1e-3) };
+    let pad = if hi > lo {
+        0.04 * (hi - lo)
+    } else if axis.log {
+        0.5
+    } else {
+        0.05 * lo.abs().max(1e-3)
+    };
     Some((lo - pad, hi + pad))
 }
 
@@ -202,7 +231,11 @@ fn scale_range(axis: &Axis, values: impl Iterator<Item = f64>) -> Option<(f64, f
 fn clip_vertically(points: &[(f64, f64)], lo: f64, hi: f64) -> Vec<Vec<(f64, f64)>> {
     let inside = |y: f64| (lo..=hi).contains(&y);
     let cross = |a: (f64, f64), b: (f64, f64)| {
-        let edge = if a.1.max(b.1) > hi && (a.1 > hi) != (b.1 > hi) { hi } else { lo };
+        let edge = if a.1.max(b.1) > hi && (a.1 > hi) != (b.1 > hi) {
+            hi
+        } else {
+            lo
+        };
         let t = (edge - a.1) / (b.1 - a.1);
         (a.0 + t * (b.0 - a.0), edge)
     };
@@ -242,51 +275,88 @@ fn drawn_pieces(spec: &ChartSpec, series: &Series, y_range: (f64, f64)) -> Vec<V
         }
     }
     pieces.push(run);
-    pieces.iter().flat_map(|p| clip_vertically(p, y_range.0, y_range.1)).filter(|p| !p.is_empty()).collect()
+    pieces
+        .iter()
+        .flat_map(|p| clip_vertically(p, y_range.0, y_range.1))
+        .filter(|p| !p.is_empty())
+        .collect()
 }
 
 /// Draws `spec` on `area`; `px` is the number of backend pixels per CSS pixel, so text,
 /// lines and margins keep their size on high-DPI screens.
-pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, spec: &ChartSpec, px: f64) -> Result<(), String> {
+pub fn draw<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    spec: &ChartSpec,
+    px: f64,
+) -> Result<(), String> {
     let err = |e: DrawingAreaErrorKind<DB::ErrorType>| format!("chart '{}': {e}", spec.title);
     let size = |css: f64| (css * px).round() as u32;
     let font = |css: f64| ("sans-serif", css * px);
     area.fill(&WHITE).map_err(err)?;
 
-    let xs = spec.series.iter().flat_map(|s| s.points.iter().map(|p| p.0));
-    let ys = spec.series.iter().flat_map(|s| s.points.iter().map(|p| p.1));
+    let xs = spec
+        .series
+        .iter()
+        .flat_map(|s| s.points.iter().map(|p| p.0));
+    let ys = spec
+        .series
+        .iter()
+        .flat_map(|s| s.points.iter().map(|p| p.1));
     let marks_x = spec.marks.iter().map(|m| match m {
         Mark::Vertical { x, .. } | Mark::Point { x, .. } => *x,
     });
-    let (Some(x_range), Some(y_range)) = (scale_range(&spec.x, xs.chain(marks_x)), scale_range(&spec.y, ys)) else {
+    let (Some(x_range), Some(y_range)) = (
+        scale_range(&spec.x, xs.chain(marks_x)),
+        scale_range(&spec.y, ys),
+    ) else {
         let style = TextStyle::from(font(14.0)).color(&BLACK);
-        area.draw_text(&format!("{}: no data to draw", spec.title), &style, (size(12.0) as i32, size(12.0) as i32))
-            .map_err(err)?;
+        area.draw_text(
+            &format!("{}: no data to draw", spec.title),
+            &style,
+            (size(12.0) as i32, size(12.0) as i32),
+        )
+        .map_err(err)?;
         return Ok(());
     };
 
     let mut chart = ChartBuilder::on(area)
         .margin(size(10.0))
-        .margin_right(size(if spec.series.iter().any(|s| s.end_label.is_some()) { 90.0 } else { 18.0 }))
+        .margin_right(size(if spec.series.iter().any(|s| s.end_label.is_some()) {
+            90.0
+        } else {
+            18.0
+        }))
         .caption(&spec.title, font(15.0))
         .x_label_area_size(size(if spec.x.hidden { 8.0 } else { 44.0 }))
         .y_label_area_size(size(72.0))
         .build_cartesian_2d(x_range.0..x_range.1, y_range.0..y_range.1)
         .map_err(err)?;
 
-    let x_fmt = |v: &f64| if spec.x.log { format::log_tick(*v) } else { format::linear_tick(*v) };
-    let y_fmt = |v: &f64| if spec.y.log { format::log_tick(*v) } else { format::linear_tick(*v) };
+    let x_fmt = |v: &f64| {
+        if spec.x.log {
+            format::log_tick(*v)
+        } else {
+            format::linear_tick(*v)
+        }
+    };
+    let y_fmt = |v: &f64| {
+        if spec.y.log {
+            format::log_tick(*v)
+        } else {
+            format::linear_tick(*v)
+        }
+    };
     let mut mesh = chart.configure_mesh();
     mesh.x_desc(&spec.x.label)
         .y_desc(&spec.y.label)
         .x_label_formatter(&x_fmt)
         .y_label_formatter(&y_fmt)
-        .x_labels(8)
-        .y_labels(8)
+        .x_labels(if spec.x.log { 12 } else { 8 })
+        .y_labels(if spec.y.log { 12 } else { 8 })
         .label_style(font(12.0))
         .axis_desc_style(font(13.0))
         // Major grid lines only: the minor ones crowd a chart this size.
-        .light_line_style(TRANSPARENT)
+        .max_light_lines(0)
         .bold_line_style(RGBColor(0xdd, 0xdd, 0xdd))
         .axis_style(ShapeStyle::from(&RGBColor(0x33, 0x33, 0x33)).stroke_width(size(1.0).max(1)));
     if spec.x.hidden {
@@ -295,67 +365,113 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, spec: &ChartSpec,
     mesh.draw().map_err(err)?;
 
     let line_width = size(2.0).max(1);
+    let mut end_labels: Vec<(&str, Color, (i32, i32))> = Vec::new();
     for series in &spec.series {
         let style = ShapeStyle::from(&series.color.rgb()).stroke_width(line_width);
         let pieces = drawn_pieces(spec, series, y_range);
         let mut first = true;
         for piece in &pieces {
             let annotation = match series.stroke {
-                Stroke::Solid => chart.draw_series(LineSeries::new(piece.iter().copied(), style)).map_err(err)?,
+                Stroke::Solid => chart
+                    .draw_series(LineSeries::new(piece.iter().copied(), style))
+                    .map_err(err)?,
                 Stroke::Dashed => chart
-                    .draw_series(DashedLineSeries::new(piece.iter().copied(), size(7.0), size(4.0), style))
+                    .draw_series(DashedLineSeries::new(
+                        piece.iter().copied(),
+                        size(7.0),
+                        size(4.0),
+                        style,
+                    ))
                     .map_err(err)?,
             };
             if first && series.in_legend {
                 let color = series.color.rgb();
                 let dashed = series.stroke == Stroke::Dashed;
                 let (w, seg) = (line_width, size(20.0) as i32);
-                annotation.label(series.name.as_str()).legend(move |(x, y)| {
-                    let s = ShapeStyle::from(&color).stroke_width(w);
-                    if dashed {
-                        EmptyElement::at((x, y))
-                            + PathElement::new(vec![(0, 0), (seg / 3, 0)], s)
-                            + PathElement::new(vec![(2 * seg / 3, 0), (seg, 0)], s)
-                    } else {
-                        EmptyElement::at((x, y)) + PathElement::new(vec![(0, 0), (seg, 0)], s)
-                            + PathElement::new(vec![(0, 0), (0, 0)], s)
-                    }
-                });
+                annotation
+                    .label(series.name.as_str())
+                    .legend(move |(x, y)| {
+                        let s = ShapeStyle::from(&color).stroke_width(w);
+                        if dashed {
+                            EmptyElement::at((x, y))
+                                + PathElement::new(vec![(0, 0), (seg / 3, 0)], s)
+                                + PathElement::new(vec![(2 * seg / 3, 0), (seg, 0)], s)
+                        } else {
+                            EmptyElement::at((x, y))
+                                + PathElement::new(vec![(0, 0), (seg, 0)], s)
+                                + PathElement::new(vec![(0, 0), (0, 0)], s)
+                        }
+                    });
                 first = false;
             }
         }
-        if let (Some(text), Some(last)) = (&series.end_label, pieces.last().and_then(|p| p.last())) {
-            let color = series.color.rgb();
-            let style = TextStyle::from(font(12.0)).color(&color);
-            let pos = chart.backend_coord(last);
-            area.draw_text(text, &style, (pos.0 + size(6.0) as i32, pos.1 - size(7.0) as i32)).map_err(err)?;
+        if let (Some(text), Some(last)) = (&series.end_label, pieces.last().and_then(|p| p.last()))
+        {
+            end_labels.push((text.as_str(), series.color, chart.backend_coord(last)));
         }
+    }
+
+    // Curves that end close together (EF meeting midgap when hot) would stack their labels.
+    let tops: Vec<i32> = end_labels
+        .iter()
+        .map(|l| l.2.1 - size(7.0) as i32)
+        .collect();
+    let tops = spread_apart(&tops, size(14.0) as i32);
+    for ((text, color, pos), top) in end_labels.iter().zip(tops) {
+        let color = color.rgb();
+        let style = TextStyle::from(font(12.0)).color(&color);
+        area.draw_text(text, &style, (pos.0 + size(6.0) as i32, top))
+            .map_err(err)?;
     }
 
     for mark in &spec.marks {
         match mark {
             Mark::Vertical { x, label } => {
-                let Some(x) = spec.x.to_scale(*x) else { continue };
-                let style = ShapeStyle::from(&RGBColor(0x44, 0x44, 0x44)).stroke_width(size(1.0).max(1));
+                let Some(x) = spec.x.to_scale(*x) else {
+                    continue;
+                };
+                let style =
+                    ShapeStyle::from(&RGBColor(0x44, 0x44, 0x44)).stroke_width(size(1.0).max(1));
                 chart
-                    .draw_series(DashedLineSeries::new([(x, y_range.0), (x, y_range.1)], size(4.0), size(4.0), style))
+                    .draw_series(DashedLineSeries::new(
+                        [(x, y_range.0), (x, y_range.1)],
+                        size(4.0),
+                        size(4.0),
+                        style,
+                    ))
                     .map_err(err)?;
                 let pos = chart.backend_coord(&(x, y_range.1));
                 let text = TextStyle::from(font(12.0)).color(&RGBColor(0x22, 0x22, 0x22));
-                area.draw_text(label, &text, (pos.0 + size(4.0) as i32, pos.1 + size(3.0) as i32)).map_err(err)?;
+                area.draw_text(
+                    label,
+                    &text,
+                    (pos.0 + size(4.0) as i32, pos.1 + size(3.0) as i32),
+                )
+                .map_err(err)?;
             }
             Mark::Point { x, y, label, color } => {
-                let (Some(x), Some(y)) = (spec.x.to_scale(*x), spec.y.to_scale(*y)) else { continue };
+                let (Some(x), Some(y)) = (spec.x.to_scale(*x), spec.y.to_scale(*y)) else {
+                    continue;
+                };
                 let c = color.rgb();
                 chart
                     .draw_series([
                         Circle::new((x, y), size(6.0), ShapeStyle::from(&WHITE).filled()),
-                        Circle::new((x, y), size(6.0), ShapeStyle::from(&c).stroke_width(size(2.5).max(1))),
+                        Circle::new(
+                            (x, y),
+                            size(6.0),
+                            ShapeStyle::from(&c).stroke_width(size(2.5).max(1)),
+                        ),
                     ])
                     .map_err(err)?;
                 let pos = chart.backend_coord(&(x, y));
                 let text = TextStyle::from(font(12.0)).color(&c);
-                area.draw_text(label, &text, (pos.0 + size(9.0) as i32, pos.1 - size(18.0) as i32)).map_err(err)?;
+                area.draw_text(
+                    label,
+                    &text,
+                    (pos.0 + size(9.0) as i32, pos.1 - size(18.0) as i32),
+                )
+                .map_err(err)?;
             }
         }
     }
@@ -381,22 +497,71 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, spec: &ChartSpec,
     Ok(())
 }
 
+/// Moves label tops (pixels, any order) the least needed so that any two are at least `gap`
+/// apart, keeping their order; returns them in the given order.
+fn spread_apart(tops: &[i32], gap: i32) -> Vec<i32> {
+    let mut order: Vec<usize> = (0..tops.len()).collect();
+    order.sort_by_key(|&i| tops[i]);
+    let mut placed = tops.to_vec();
+    // Push down any label that crowds the one above it, then centre each crowded run on
+    // where its labels wanted to be, so a pair of labels moves apart symmetrically.
+    let mut run_start = 0;
+    for k in 0..order.len() {
+        if k > 0 && placed[order[k]] < placed[order[k - 1]] + gap {
+            placed[order[k]] = placed[order[k - 1]] + gap;
+        } else {
+            run_start = k;
+        }
+        let run = &order[run_start..=k];
+        let wanted: i32 = run.iter().map(|&i| tops[i]).sum::<i32>() / run.len() as i32;
+        let now: i32 = run.iter().map(|&i| placed[i]).sum::<i32>() / run.len() as i32;
+        let shift = (now - wanted).min(
+            placed[run[0]]
+                - if run_start > 0 {
+                    placed[order[run_start - 1]] + gap
+                } else {
+                    i32::MIN / 2
+                },
+        );
+        for &i in run {
+            placed[i] -= shift.max(0);
+        }
+    }
+    placed
+}
+
 /// Quotes a CSV cell when it holds a comma, quote or line break.
 fn csv_cell(text: &str) -> String {
-    if text.contains([',', '"', '\n', '\r']) { format!("\"{}\"", text.replace('"', "\"\"")) } else { text.into() }
+    if text.contains([',', '"', '\n', '\r']) {
+        format!("\"{}\"", text.replace('"', "\"\""))
+    } else {
+        text.into()
+    }
 }
 
 /// The chart's data as CSV. Series that share their x values become columns of one table
 /// (what a spreadsheet wants); otherwise one row per point with the series name.
 pub fn to_csv(spec: &ChartSpec) -> String {
-    let data: Vec<&Series> = spec.series.iter().filter(|s| !s.points.is_empty()).collect();
+    let data: Vec<&Series> = spec
+        .series
+        .iter()
+        .filter(|s| !s.points.is_empty())
+        .collect();
     let mut out = String::new();
     let shared_x = data.windows(2).all(|w| {
-        w[0].points.len() == w[1].points.len() && w[0].points.iter().zip(&w[1].points).all(|(a, b)| a.0 == b.0)
+        w[0].points.len() == w[1].points.len()
+            && w[0]
+                .points
+                .iter()
+                .zip(&w[1].points)
+                .all(|(a, b)| a.0 == b.0)
     });
     if shared_x && !data.is_empty() {
         let mut header = vec![csv_cell(&spec.x.label)];
-        header.extend(data.iter().map(|s| csv_cell(&format!("{} [{}]", s.name, spec.y.label))));
+        header.extend(
+            data.iter()
+                .map(|s| csv_cell(&format!("{} [{}]", s.name, spec.y.label))),
+        );
         out.push_str(&header.join(","));
         out.push('\n');
         for (i, (x, _)) in data[0].points.iter().enumerate() {
@@ -406,10 +571,19 @@ pub fn to_csv(spec: &ChartSpec) -> String {
             out.push('\n');
         }
     } else {
-        out.push_str(&format!("series,{},{}\n", csv_cell(&spec.x.label), csv_cell(&spec.y.label)));
+        out.push_str(&format!(
+            "series,{},{}\n",
+            csv_cell(&spec.x.label),
+            csv_cell(&spec.y.label)
+        ));
         for s in &data {
             for (x, y) in &s.points {
-                out.push_str(&format!("{},{},{}\n", csv_cell(&s.name), format::csv_number(*x), format::csv_number(*y)));
+                out.push_str(&format!(
+                    "{},{},{}\n",
+                    csv_cell(&s.name),
+                    format::csv_number(*x),
+                    format::csv_number(*y)
+                ));
             }
         }
     }
@@ -450,7 +624,10 @@ mod tests {
             Series::line("a", vec![(1.0, 2.0)], palette::ELECTRONS),
             Series::line("b", vec![(3.0, 4.0), (5.0, 6.0)], palette::HOLES),
         ]);
-        assert_eq!(to_csv(&s), "series,T (K),n (cm^-3)\na,1e0,2e0\nb,3e0,4e0\nb,5e0,6e0\n");
+        assert_eq!(
+            to_csv(&s),
+            "series,T (K),n (cm^-3)\na,1e0,2e0\nb,3e0,4e0\nb,5e0,6e0\n"
+        );
     }
 
     #[test]
@@ -461,7 +638,8 @@ mod tests {
     #[test]
     fn log_axis_range_ignores_values_it_cannot_draw() {
         let axis = Axis::log("n");
-        let (lo, hi) = scale_range(&axis, [0.0, -1.0, 1e10, 1e20, f64::NAN].into_iter()).expect("range");
+        let (lo, hi) =
+            scale_range(&axis, [0.0, -1.0, 1e10, 1e20, f64::NAN].into_iter()).expect("range");
         assert!(lo < 10.0 && lo > 9.0 && hi > 20.0 && hi < 21.0, "{lo} {hi}");
         assert_eq!(scale_range(&axis, [0.0].into_iter()), None);
     }
@@ -476,16 +654,50 @@ mod tests {
 
     #[test]
     fn clipping_interpolates_the_edge_crossing() {
-        let pieces = clip_vertically(&[(0.0, 5.0), (1.0, -5.0), (2.0, -5.0), (3.0, 5.0)], 0.0, 10.0);
-        assert_eq!(pieces, vec![vec![(0.0, 5.0), (0.5, 0.0)], vec![(2.5, 0.0), (3.0, 5.0)]]);
+        let pieces = clip_vertically(
+            &[(0.0, 5.0), (1.0, -5.0), (2.0, -5.0), (3.0, 5.0)],
+            0.0,
+            10.0,
+        );
+        assert_eq!(
+            pieces,
+            vec![vec![(0.0, 5.0), (0.5, 0.0)], vec![(2.5, 0.0), (3.0, 5.0)]]
+        );
         let pieces = clip_vertically(&[(0.0, 5.0), (1.0, 15.0)], 0.0, 10.0);
         assert_eq!(pieces, vec![vec![(0.0, 5.0), (0.5, 10.0)]]);
         assert!(clip_vertically(&[(0.0, -1.0), (1.0, -2.0)], 0.0, 10.0).is_empty());
     }
 
     #[test]
+    fn crowded_labels_move_apart_and_keep_their_order() {
+        assert_eq!(
+            spread_apart(&[100, 50], 14),
+            vec![100, 50],
+            "far apart: untouched"
+        );
+        let placed = spread_apart(&[100, 104], 14);
+        assert_eq!(placed[1] - placed[0], 14);
+        assert!(
+            placed[0] < 100 && placed[1] > 104,
+            "a pair moves apart symmetrically: {placed:?}"
+        );
+        let placed = spread_apart(&[30, 10, 12, 11], 14);
+        let mut sorted = placed.clone();
+        sorted.sort();
+        assert!(sorted.windows(2).all(|w| w[1] - w[0] >= 14), "{placed:?}");
+        assert!(
+            placed[1] < placed[3] && placed[3] < placed[2],
+            "order kept: {placed:?}"
+        );
+    }
+
+    #[test]
     fn undrawable_points_break_the_curve() {
-        let s = spec(vec![Series::line("n", vec![(1.0, 1e3), (2.0, 0.0), (3.0, 1e4), (4.0, 1e5)], palette::ELECTRONS)]);
+        let s = spec(vec![Series::line(
+            "n",
+            vec![(1.0, 1e3), (2.0, 0.0), (3.0, 1e4), (4.0, 1e5)],
+            palette::ELECTRONS,
+        )]);
         let pieces = drawn_pieces(&s, &s.series[0], (0.0, 10.0));
         assert_eq!(pieces, vec![vec![(1.0, 3.0)], vec![(3.0, 4.0), (4.0, 5.0)]]);
     }

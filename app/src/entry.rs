@@ -17,7 +17,10 @@ pub fn positive(field: &str, text: &str, kind: QuantityKind, unit: &str) -> Pars
     if v > 0.0 {
         Ok(v)
     } else {
-        Err(format!("{field}: {} {unit} is not allowed; give a value > 0", trim_number(v)))
+        Err(format!(
+            "{field}: {} {unit} is not allowed; give a value > 0",
+            trim_number(v)
+        ))
     }
 }
 
@@ -27,7 +30,10 @@ pub fn density_cm3(field: &str, text: &str) -> Parsed {
     if v >= 0.0 {
         Ok(v)
     } else {
-        Err(format!("{field}: {} cm^-3 is not allowed; give a density >= 0", trim_number(v)))
+        Err(format!(
+            "{field}: {} cm^-3 is not allowed; give a density >= 0",
+            trim_number(v)
+        ))
     }
 }
 
@@ -37,7 +43,10 @@ pub fn temperature_k(field: &str, text: &str) -> Parsed {
     if v > 0.0 {
         Ok(v)
     } else {
-        Err(format!("{field}: {} K is not allowed; give a temperature above 0 K (-273.15 C)", trim_number(v)))
+        Err(format!(
+            "{field}: {} K is not allowed; give a temperature above 0 K (-273.15 C)",
+            trim_number(v)
+        ))
     }
 }
 
@@ -47,7 +56,9 @@ pub fn count(field: &str, text: &str, min: usize, max: usize) -> Result<usize, S
     match text.trim().parse::<usize>() {
         Ok(v) if (min..=max).contains(&v) => Ok(v),
         Ok(v) => Err(format!("{field}: {v} is not allowed; {allowed}")),
-        Err(_) => Err(format!("{field}: {text:?} is not a whole number; {allowed}")),
+        Err(_) => Err(format!(
+            "{field}: {text:?} is not a whole number; {allowed}"
+        )),
     }
 }
 
@@ -75,7 +86,10 @@ mod tests {
     fn reads_numbers_as_engineers_type_them() {
         assert_eq!(density_cm3("donor", "2.3x10^15"), Ok(2.3e15));
         assert_eq!(density_cm3("donor", "1E21 m^-3"), Ok(1e15));
-        assert_eq!(positive("rho", "10 mohm-cm", QuantityKind::Resistivity, "ohm-cm"), Ok(0.01));
+        assert_eq!(
+            positive("rho", "10 mohm-cm", QuantityKind::Resistivity, "ohm-cm"),
+            Ok(0.01)
+        );
         let t = temperature_k("temperature", "27 C").expect("27 C");
         assert!((t - 300.15).abs() < 1e-9);
     }
@@ -108,7 +122,15 @@ mod tests {
         assert_eq!(count("points", "121", 2, 400), Ok(121));
         assert!(count("points", "1", 2, 400).is_err());
         assert!(count("points", "2.5", 2, 400).is_err());
-        assert!(count("points", "1000000", 2, 400).unwrap_err().contains("from 2 to 400"));
-        assert!(count("points", "ten", 2, 400).unwrap_err().contains("not a whole number"));
+        assert!(
+            count("points", "1000000", 2, 400)
+                .unwrap_err()
+                .contains("from 2 to 400")
+        );
+        assert!(
+            count("points", "ten", 2, 400)
+                .unwrap_err()
+                .contains("not a whole number")
+        );
     }
 }

@@ -23,7 +23,11 @@ pub fn fixed(value: f64, decimals: usize) -> String {
     }
     let text = format!("{value:.decimals$}");
     // "-0.000" reads as a sign error to an engineer; show zero plainly.
-    if text.trim_start_matches('-').chars().all(|c| c == '0' || c == '.') {
+    if text
+        .trim_start_matches('-')
+        .chars()
+        .all(|c| c == '0' || c == '.')
+    {
         text.trim_start_matches('-').to_string()
     } else {
         text
@@ -37,7 +41,11 @@ pub fn auto(value: f64) -> String {
     if !value.is_finite() {
         "—".into()
     } else if a == 0.0 || (1e-3..1e5).contains(&a) {
-        let digits = if a == 0.0 { 0 } else { (RESULT_DIGITS as i32 - 1 - a.log10().floor() as i32).max(0) as usize };
+        let digits = if a == 0.0 {
+            0
+        } else {
+            (RESULT_DIGITS as i32 - 1 - a.log10().floor() as i32).max(0) as usize
+        };
         fixed(value, digits)
     } else {
         sci(value)
@@ -84,12 +92,20 @@ pub fn linear_tick(value: f64) -> String {
     // Ticks sit on round numbers; trimming zeros removes the float noise.
     let text = format!("{value:.4}");
     let text = text.trim_end_matches('0').trim_end_matches('.');
-    if text == "-0" { "0".into() } else { text.into() }
+    if text == "-0" {
+        "0".into()
+    } else {
+        text.into()
+    }
 }
 
 /// A number for a CSV cell: the shortest text that reads back as the same f64.
 pub fn csv_number(value: f64) -> String {
-    if value.is_finite() { format!("{value:e}") } else { String::new() }
+    if value.is_finite() {
+        format!("{value:e}")
+    } else {
+        String::new()
+    }
 }
 
 #[cfg(test)]

@@ -11,6 +11,7 @@ pub mod carriers;
 pub mod chart;
 pub mod entry;
 pub mod format;
+pub mod lots_view;
 pub mod resistivity;
 pub mod state;
 pub mod sweep;
@@ -62,10 +63,17 @@ pub fn App() -> impl IntoView {
     let notices = RwSignal::new(first_notices);
     let (layout, set_layout) = signal(0u32);
     let (input_at, set_input_at) = signal(0.0f64);
-    let bench = Bench { inputs, layout, input_at, set_input_at };
+    let bench = Bench {
+        inputs,
+        layout,
+        input_at,
+        set_input_at,
+    };
 
     // Charts size themselves to their box; a resize must redraw them.
-    let resize = window_event_listener(leptos::ev::resize, move |_| set_layout.update(|n| *n = n.wrapping_add(1)));
+    let resize = window_event_listener(leptos::ev::resize, move |_| {
+        set_layout.update(|n| *n = n.wrapping_add(1))
+    });
     on_cleanup(move || resize.remove());
 
     // The one effect that syncs storage: the address bar and the saved inputs follow
@@ -81,7 +89,10 @@ pub fn App() -> impl IntoView {
     // Arrow keys move between tabs, as in any tab strip.
     let on_tab_key = move |ev: leptos::ev::KeyboardEvent| {
         let all = View::ALL;
-        let at = all.iter().position(|v| *v == current.get_untracked()).unwrap_or(0);
+        let at = all
+            .iter()
+            .position(|v| *v == current.get_untracked())
+            .unwrap_or(0);
         let next = match ev.key().as_str() {
             "ArrowRight" => all[(at + 1) % all.len()],
             "ArrowLeft" => all[(at + all.len() - 1) % all.len()],
@@ -130,6 +141,7 @@ pub fn App() -> impl IntoView {
                 View::Carriers => view! { <carriers::CarriersView bench=bench /> }.into_any(),
                 View::Sweep => view! { <sweep::SweepView bench=bench /> }.into_any(),
                 View::Resistivity => view! { <resistivity::ResistivityView bench=bench /> }.into_any(),
+                View::Lots => view! { <lots_view::LotsView bench=bench /> }.into_any(),
             }}
         </main>
     }
@@ -139,7 +151,9 @@ fn focus_tab(view: View) {
     let element = web_sys::window()
         .and_then(|w| w.document())
         .and_then(|d| d.get_element_by_id(&format!("tab-{}", view.key())));
-    if let Some(el) = element.and_then(|e| wasm_bindgen::JsCast::dyn_into::<web_sys::HtmlElement>(e).ok()) {
+    if let Some(el) =
+        element.and_then(|e| wasm_bindgen::JsCast::dyn_into::<web_sys::HtmlElement>(e).ok())
+    {
         let _ = el.focus();
     }
 }

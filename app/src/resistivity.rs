@@ -9,7 +9,9 @@ use crate::format;
 use crate::state::Given;
 use crate::widgets::{Caution, ChartPanel, Choice, NumberField, ResultLine, SelectField};
 use bandgauge_core::compare::{self, Comparison, ConversionInput, ConversionModel, ModelAnswer};
-use bandgauge_core::empirical::{self, EMPIRICAL_REFERENCE, EMPIRICAL_TEMPERATURE_K, EmpiricalInput, EmpiricalRelation};
+use bandgauge_core::empirical::{
+    self, EMPIRICAL_REFERENCE, EMPIRICAL_TEMPERATURE_K, EmpiricalInput, EmpiricalRelation,
+};
 use bandgauge_core::materials;
 use bandgauge_core::mobility::MobilityModel;
 use bandgauge_core::neutrality::SolveOptions;
@@ -53,7 +55,9 @@ const CURVE_POINTS: usize = 61;
 /// `points` densities evenly spaced in log between `lo` and `hi`, cm^-3.
 fn log_grid(lo: f64, hi: f64, points: usize) -> Vec<f64> {
     let (a, b) = (lo.log10(), hi.log10());
-    (0..points).map(|i| 10f64.powf(a + (b - a) * i as f64 / (points - 1) as f64)).collect()
+    (0..points)
+        .map(|i| 10f64.powf(a + (b - a) * i as f64 / (points - 1) as f64))
+        .collect()
 }
 
 /// The resistivity-versus-density curves of P- and B-doped silicon at 23 C: the empirical
@@ -62,25 +66,47 @@ pub fn curves() -> Vec<Series> {
     let silicon = materials::silicon();
     let mut series = Vec::new();
     for (relation, dopant, color, label) in [
-        (EmpiricalRelation::Phosphorus, "P", palette::ELECTRONS, "n-type (P)"),
+        (
+            EmpiricalRelation::Phosphorus,
+            "P",
+            palette::ELECTRONS,
+            "n-type (P)",
+        ),
         (EmpiricalRelation::Boron, "B", palette::HOLES, "p-type (B)"),
     ] {
         let range = relation.valid_range();
-        let empirical: Vec<(f64, f64)> = log_grid(range.density_min_cm3, range.density_max_cm3, CURVE_POINTS)
-            .into_iter()
-            .filter_map(|n| empirical::resistivity_from_density_ohm_cm(relation, n).ok().map(|rho| (n, rho)))
-            .collect();
-        series.push(Series::line(&format!("{label}, empirical"), empirical, color));
+        let empirical: Vec<(f64, f64)> =
+            log_grid(range.density_min_cm3, range.density_max_cm3, CURVE_POINTS)
+                .into_iter()
+                .filter_map(|n| {
+                    empirical::resistivity_from_density_ohm_cm(relation, n)
+                        .ok()
+                        .map(|rho| (n, rho))
+                })
+                .collect();
+        series.push(Series::line(
+            &format!("{label}, empirical"),
+            empirical,
+            color,
+        ));
         let options = PhysicsOptions::with_mobility(MobilityModel::Masetti);
-        let physics: Vec<(f64, f64)> = log_grid(range.density_min_cm3, range.density_max_cm3, CURVE_POINTS)
-            .into_iter()
-            .filter_map(|n| {
-                resistivity::resistivity_from_density(&silicon, dopant, n, EMPIRICAL_TEMPERATURE_K, &options)
+        let physics: Vec<(f64, f64)> =
+            log_grid(range.density_min_cm3, range.density_max_cm3, CURVE_POINTS)
+                .into_iter()
+                .filter_map(|n| {
+                    resistivity::resistivity_from_density(
+                        &silicon,
+                        dopant,
+                        n,
+                        EMPIRICAL_TEMPERATURE_K,
+                        &options,
+                    )
                     .ok()
                     .map(|p| (n, p.resistivity_ohm_cm))
-            })
-            .collect();
-        series.push(Series::line(&format!("{label}, neutrality + Masetti"), physics, color).dashed());
+                })
+                .collect();
+        series
+            .push(Series::line(&format!("{label}, neutrality + Masetti"), physics, color).dashed());
     }
     series
 }
@@ -97,7 +123,11 @@ pub fn chart(curves: &[Series], sample: Option<(f64, f64, Color)>) -> ChartSpec 
             .map(|(n, rho, color)| Mark::Point {
                 x: n,
                 y: rho,
-                label: format!("sample: {} Ω·cm, {} cm⁻³", format::auto(rho), format::sci(n)),
+                label: format!(
+                    "sample: {} Ω·cm, {} cm⁻³",
+                    format::auto(rho),
+                    format::sci(n)
+                ),
                 color,
             })
             .into_iter()
@@ -107,8 +137,17 @@ pub fn chart(curves: &[Series], sample: Option<(f64, f64, Color)>) -> ChartSpec 
 }
 
 /// A field that may be left empty (no correction); otherwise a positive quantity.
-fn optional_positive(field: &str, text: &str, kind: QuantityKind, unit: &str) -> Result<Option<f64>, String> {
-    if text.trim().is_empty() { Ok(None) } else { entry::positive(field, text, kind, unit).map(Some) }
+fn optional_positive(
+    field: &str,
+    text: &str,
+    kind: QuantityKind,
+    unit: &str,
+) -> Result<Option<f64>, String> {
+    if text.trim().is_empty() {
+        Ok(None)
+    } else {
+        entry::positive(field, text, kind, unit).map(Some)
+    }
 }
 
 /// The probe inputs, read.
@@ -133,14 +172,30 @@ pub fn read_probe(c: &crate::state::ConversionInputs) -> ProbeInputs {
     let temperature_c = if c.probe_temperature.trim().is_empty() {
         Ok(None)
     } else {
-        entry::temperature_k("temperature", &c.probe_temperature).map(|k| Some(k - bandgauge_core::constants::ZERO_CELSIUS_K))
+        entry::temperature_k("temperature", &c.probe_temperature)
+            .map(|k| Some(k - bandgauge_core::constants::ZERO_CELSIUS_K))
     };
     ProbeInputs {
         amps: entry::positive("current", &c.probe_current, QuantityKind::Current, "A"),
         volts: entry::positive("voltage", &c.probe_voltage, QuantityKind::Voltage, "V"),
-        spacing_cm: entry::positive("probe spacing", &c.probe_spacing, QuantityKind::Length, "cm"),
-        thickness_cm: optional_positive("thickness", &c.sample_thickness, QuantityKind::Length, "cm"),
-        diameter_cm: optional_positive("wafer diameter", &c.wafer_diameter, QuantityKind::Length, "cm"),
+        spacing_cm: entry::positive(
+            "probe spacing",
+            &c.probe_spacing,
+            QuantityKind::Length,
+            "cm",
+        ),
+        thickness_cm: optional_positive(
+            "thickness",
+            &c.sample_thickness,
+            QuantityKind::Length,
+            "cm",
+        ),
+        diameter_cm: optional_positive(
+            "wafer diameter",
+            &c.wafer_diameter,
+            QuantityKind::Length,
+            "cm",
+        ),
         temperature_c,
     }
 }
@@ -157,9 +212,16 @@ pub fn evaluate_probe(p: &ProbeInputs, dopant: &str) -> Option<Result<ProbeResul
                 .into_iter()
                 .find(|m| *m != MobilityModel::Lattice && m.applicable(&silicon.id, dopant))
             else {
-                return Some(Err(format!("temperature correction: no mobility model for silicon with {dopant}")));
+                return Some(Err(format!(
+                    "temperature correction: no mobility model for silicon with {dopant}"
+                )));
             };
-            Some(ReadingTemperature { temperature_c: t, material: silicon, dopant: dopant.into(), mobility })
+            Some(ReadingTemperature {
+                temperature_c: t,
+                material: silicon,
+                dopant: dopant.into(),
+                mobility,
+            })
         }
         _ => None,
     };
@@ -180,7 +242,21 @@ fn dopant_choices() -> Vec<Choice> {
         .dopants
         .iter()
         .filter(|d| EmpiricalRelation::applicable("si", &d.symbol))
-        .map(|d| (d.symbol.clone(), format!("{} ({}, {}-type)", d.symbol, d.kind, if d.kind == materials::DopantKind::Donor { "n" } else { "p" })))
+        .map(|d| {
+            (
+                d.symbol.clone(),
+                format!(
+                    "{} ({}, {}-type)",
+                    d.symbol,
+                    d.kind,
+                    if d.kind == materials::DopantKind::Donor {
+                        "n"
+                    } else {
+                        "p"
+                    }
+                ),
+            )
+        })
         .collect()
 }
 
@@ -202,24 +278,37 @@ pub fn ResistivityView(
     let parsed = Memo::new(move |_| {
         let text = value.get();
         match given.get() {
-            Given::Resistivity => entry::positive("resistivity", &text, QuantityKind::Resistivity, "ohm-cm"),
+            Given::Resistivity => {
+                entry::positive("resistivity", &text, QuantityKind::Resistivity, "ohm-cm")
+            }
             Given::Density => entry::positive("density", &text, QuantityKind::Density, "cm^-3"),
         }
     });
     let comparison = Memo::new(move |_| {
         let v = parsed.get().ok()?;
-        dopant_error.get().is_none().then(|| compare_at_23c(given.get(), v, &dopant.get()))
+        dopant_error
+            .get()
+            .is_none()
+            .then(|| compare_at_23c(given.get(), v, &dopant.get()))
     });
-    let shown = Memo::new(move |previous: Option<&Option<(Given, Comparison)>>| match comparison.get() {
-        Some(Ok(c)) => Some((given.get(), c)),
-        _ => previous.cloned().flatten(),
-    });
+    let shown =
+        Memo::new(
+            move |previous: Option<&Option<(Given, Comparison)>>| match comparison.get() {
+                Some(Ok(c)) => Some((given.get(), c)),
+                _ => previous.cloned().flatten(),
+            },
+        );
     // Computed once: the curves do not depend on the inputs.
     let curves = StoredValue::new(curves());
     let sample = Memo::new(move |_| {
         let (_, comparison) = shown.get()?;
-        let a = comparison.answers.iter().find(|a| a.density_cm3.is_some() && a.resistivity_ohm_cm.is_some())?;
-        let color = if EmpiricalRelation::for_dopant("si", &dopant.get()).map(|r| r.0) == Ok(EmpiricalRelation::Boron) {
+        let a = comparison
+            .answers
+            .iter()
+            .find(|a| a.density_cm3.is_some() && a.resistivity_ohm_cm.is_some())?;
+        let color = if EmpiricalRelation::for_dopant("si", &dopant.get()).map(|r| r.0)
+            == Ok(EmpiricalRelation::Boron)
+        {
             palette::HOLES
         } else {
             palette::ELECTRONS
@@ -228,41 +317,75 @@ pub fn ResistivityView(
     });
     let chart_spec = Signal::derive(move || Some(curves.with_value(|c| chart(c, sample.get()))));
 
-    let (probe_current, set_probe_current) = bench.text(|w| &w.conversion.probe_current, |w| &mut w.conversion.probe_current);
-    let (probe_voltage, set_probe_voltage) = bench.text(|w| &w.conversion.probe_voltage, |w| &mut w.conversion.probe_voltage);
-    let (probe_spacing, set_probe_spacing) = bench.text(|w| &w.conversion.probe_spacing, |w| &mut w.conversion.probe_spacing);
-    let (thickness, set_thickness) = bench.text(|w| &w.conversion.sample_thickness, |w| &mut w.conversion.sample_thickness);
-    let (diameter, set_diameter) = bench.text(|w| &w.conversion.wafer_diameter, |w| &mut w.conversion.wafer_diameter);
-    let (probe_temperature, set_probe_temperature) =
-        bench.text(|w| &w.conversion.probe_temperature, |w| &mut w.conversion.probe_temperature);
+    let (probe_current, set_probe_current) = bench.text(
+        |w| &w.conversion.probe_current,
+        |w| &mut w.conversion.probe_current,
+    );
+    let (probe_voltage, set_probe_voltage) = bench.text(
+        |w| &w.conversion.probe_voltage,
+        |w| &mut w.conversion.probe_voltage,
+    );
+    let (probe_spacing, set_probe_spacing) = bench.text(
+        |w| &w.conversion.probe_spacing,
+        |w| &mut w.conversion.probe_spacing,
+    );
+    let (thickness, set_thickness) = bench.text(
+        |w| &w.conversion.sample_thickness,
+        |w| &mut w.conversion.sample_thickness,
+    );
+    let (diameter, set_diameter) = bench.text(
+        |w| &w.conversion.wafer_diameter,
+        |w| &mut w.conversion.wafer_diameter,
+    );
+    let (probe_temperature, set_probe_temperature) = bench.text(
+        |w| &w.conversion.probe_temperature,
+        |w| &mut w.conversion.probe_temperature,
+    );
     let probe_inputs = Memo::new(move |_| inputs.with(|w| read_probe(&w.conversion)));
     let probe_outcome = Memo::new(move |_| evaluate_probe(&probe_inputs.get(), &dopant.get()));
-    let probe_shown = Memo::new(move |previous: Option<&Option<ProbeResult>>| match probe_outcome.get() {
-        Some(Ok(r)) => Some(r),
-        _ => previous.cloned().flatten(),
-    });
+    let probe_shown = Memo::new(
+        move |previous: Option<&Option<ProbeResult>>| match probe_outcome.get() {
+            Some(Ok(r)) => Some(r),
+            _ => previous.cloned().flatten(),
+        },
+    );
     let probe_density = Memo::new(move |_| {
         let rho = probe_shown.get()?.resistivity_ohm_cm;
-        Some(empirical::convert("si", &dopant.get(), EmpiricalInput::ResistivityOhmCm(rho)).map_err(|e| e.to_string()))
+        Some(
+            empirical::convert("si", &dopant.get(), EmpiricalInput::ResistivityOhmCm(rho))
+                .map_err(|e| e.to_string()),
+        )
     });
     let probe_status = Memo::new(move |_| match probe_outcome.get() {
-        None => Some("Showing the last valid probe result: correct the marked field to update.".to_string()),
-        Some(Err(e)) => Some(format!("Cannot compute: {e}. Showing the last valid probe result.")),
+        None => Some(
+            "Showing the last valid probe result: correct the marked field to update.".to_string(),
+        ),
+        Some(Err(e)) => Some(format!(
+            "Cannot compute: {e}. Showing the last valid probe result."
+        )),
         Some(Ok(_)) => None,
     });
     let status = Memo::new(move |_| match comparison.get() {
         Some(Ok(_)) => None,
-        Some(Err(e)) => Some(format!("Cannot compare: {e}. Showing the last valid comparison.")),
-        None => Some("Showing the last valid comparison: correct the marked field to update.".to_string()),
+        Some(Err(e)) => Some(format!(
+            "Cannot compare: {e}. Showing the last valid comparison."
+        )),
+        None => Some(
+            "Showing the last valid comparison: correct the marked field to update.".to_string(),
+        ),
     });
 
-    let field_error = move |f: fn(&ProbeInputs) -> Option<String>| Signal::derive(move || probe_inputs.with(f));
+    let field_error =
+        move |f: fn(&ProbeInputs) -> Option<String>| Signal::derive(move || probe_inputs.with(f));
     let set_given = move |g: Given| {
         bench.edit(|w| {
             if w.conversion.given != g {
                 w.conversion.given = g;
                 // Offer the last answer as the new given value, so the direction flips in place.
-                if let Some(v) = shown.get_untracked().and_then(|(old, c)| c.answers.first().and_then(|a| answer_value(a, old))) {
+                if let Some(v) = shown
+                    .get_untracked()
+                    .and_then(|(old, c)| c.answers.first().and_then(|a| answer_value(a, old)))
+                {
                     w.conversion.value = match g {
                         Given::Resistivity => format!("{} ohm-cm", format::sci(v)),
                         Given::Density => format!("{} cm^-3", format::sci(v)),
@@ -275,16 +398,31 @@ pub fn ResistivityView(
         Given::Resistivity => "Resistivity",
         Given::Density => "Dopant density",
     };
-    let probe_value = move |f: fn(&ProbeResult) -> String| Signal::derive(move || probe_shown.with(|r| r.as_ref().map(f).unwrap_or_else(|| "—".into())));
+    let probe_value = move |f: fn(&ProbeResult) -> String| {
+        Signal::derive(move || {
+            probe_shown.with(|r| r.as_ref().map(f).unwrap_or_else(|| "—".into()))
+        })
+    };
     let models = Signal::derive(move || {
         let mut list = vec![(
             "conversion".to_string(),
-            "empirical relation and charge neutrality with each mobility model, silicon at 23 C".to_string(),
+            "empirical relation and charge neutrality with each mobility model, silicon at 23 C"
+                .to_string(),
             EMPIRICAL_REFERENCE.to_string(),
         )];
         if let Some(r) = probe_shown.get() {
-            list.extend(r.corrections.iter().map(|c| (format!("probe {} correction", c.name), format::fixed(c.value, 5), c.source.clone())));
-            list.extend(r.notes.iter().map(|n| ("probe note".to_string(), n.clone(), String::new())));
+            list.extend(r.corrections.iter().map(|c| {
+                (
+                    format!("probe {} correction", c.name),
+                    format::fixed(c.value, 5),
+                    c.source.clone(),
+                )
+            }));
+            list.extend(
+                r.notes
+                    .iter()
+                    .map(|n| ("probe note".to_string(), n.clone(), String::new())),
+            );
         }
         list
     });
@@ -485,8 +623,12 @@ mod tests {
     fn comparison_is_the_cores_at_23c() {
         let c = compare_at_23c(Given::Resistivity, 10.0, "B").expect("compares");
         assert_eq!(c.answers[0].model, ConversionModel::Empirical);
-        let direct = empirical::convert("si", "B", EmpiricalInput::ResistivityOhmCm(10.0)).expect("core");
-        assert_eq!(answer_value(&c.answers[0], Given::Resistivity), Some(direct.density_cm3));
+        let direct =
+            empirical::convert("si", "B", EmpiricalInput::ResistivityOhmCm(10.0)).expect("core");
+        assert_eq!(
+            answer_value(&c.answers[0], Given::Resistivity),
+            Some(direct.density_cm3)
+        );
         assert_eq!(c.temperature_k, EMPIRICAL_TEMPERATURE_K);
         assert!(c.spread.is_some());
     }
@@ -503,17 +645,23 @@ mod tests {
     fn curves_cover_both_types_and_mark_the_sample() {
         let c = curves();
         assert_eq!(c.len(), 4);
-        assert!(c.iter().all(|s| s.points.len() > CURVE_POINTS / 2), "{:?}", c.iter().map(|s| s.points.len()).collect::<Vec<_>>());
+        assert!(
+            c.iter().all(|s| s.points.len() > CURVE_POINTS / 2),
+            "{:?}",
+            c.iter().map(|s| s.points.len()).collect::<Vec<_>>()
+        );
         let spec = chart(&c, Some((1e15, 13.0, palette::HOLES)));
         assert_eq!(spec.marks.len(), 1);
     }
 
     #[test]
     fn probe_fields_may_be_empty_for_no_correction() {
-        let mut c = crate::state::ConversionInputs::default();
-        c.sample_thickness = String::new();
-        c.wafer_diameter = String::new();
-        c.probe_temperature = String::new();
+        let mut c = crate::state::ConversionInputs {
+            sample_thickness: String::new(),
+            wafer_diameter: String::new(),
+            probe_temperature: String::new(),
+            ..Default::default()
+        };
         let p = read_probe(&c);
         assert_eq!(p.thickness_cm, Ok(None));
         let r = evaluate_probe(&p, "B").expect("valid").expect("evaluates");

@@ -16,11 +16,13 @@ pub enum View {
     Sweep,
     /// Resistivity and density conversion, and the four-point probe.
     Resistivity,
+    /// Wafer-lot files summarised and judged against a spec window.
+    Lots,
 }
 
 impl View {
     /// Every view, in tab order.
-    pub const ALL: [View; 3] = [View::Carriers, View::Sweep, View::Resistivity];
+    pub const ALL: [View; 4] = [View::Carriers, View::Sweep, View::Resistivity, View::Lots];
 
     /// The key used in the URL (`view=`).
     pub fn key(self) -> &'static str {
@@ -28,6 +30,7 @@ impl View {
             View::Carriers => "carriers",
             View::Sweep => "sweep",
             View::Resistivity => "resistivity",
+            View::Lots => "lots",
         }
     }
 
@@ -37,6 +40,7 @@ impl View {
             View::Carriers => "Carriers at one temperature",
             View::Sweep => "Temperature sweep",
             View::Resistivity => "Resistivity & probe",
+            View::Lots => "Wafer lots",
         }
     }
 
@@ -58,12 +62,16 @@ pub struct DopantRow {
 impl DopantRow {
     /// A row for `species` at `density` (both as text).
     pub fn new(species: &str, density: &str) -> DopantRow {
-        DopantRow { species: species.into(), density: density.into() }
+        DopantRow {
+            species: species.into(),
+            density: density.into(),
+        }
     }
 }
 
 /// Inputs of the carriers view (and the doping the sweep view reuses).
 #[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(default)]
 pub struct CarrierInputs {
     /// Material id (`si`, `ge`, ...).
     pub material: String,
@@ -73,6 +81,8 @@ pub struct CarrierInputs {
     pub dopants: Vec<DopantRow>,
     /// Intrinsic-density model key.
     pub intrinsic_model: String,
+    /// Dopant-level (ionization) model key.
+    pub ionization_model: String,
     /// Band-gap narrowing on or off.
     pub band_gap_narrowing: bool,
     /// Mobility model key.
@@ -88,6 +98,7 @@ impl Default for CarrierInputs {
             temperature: "300 K".into(),
             dopants: vec![DopantRow::new("P", "1e15 cm^-3")],
             intrinsic_model: "dos".into(),
+            ionization_model: "altermatt".into(),
             band_gap_narrowing: false,
             mobility_model: String::new(),
             thickness: "525 um".into(),
@@ -97,6 +108,7 @@ impl Default for CarrierInputs {
 
 /// Inputs of the temperature-sweep view.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(default)]
 pub struct SweepInputs {
     /// Lowest temperature as typed.
     pub from: String,
@@ -108,7 +120,11 @@ pub struct SweepInputs {
 
 impl Default for SweepInputs {
     fn default() -> Self {
-        SweepInputs { from: "50 K".into(), to: "700 K".into(), points: "131".into() }
+        SweepInputs {
+            from: "50 K".into(),
+            to: "700 K".into(),
+            points: "131".into(),
+        }
     }
 }
 
@@ -143,6 +159,7 @@ impl Given {
 
 /// Inputs of the resistivity and probe view.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(default)]
 pub struct ConversionInputs {
     /// Which quantity is given.
     pub given: Given,
@@ -204,7 +221,10 @@ struct Saved {
 
 /// The state as the JSON text kept in the browser's storage.
 pub fn to_saved_json(workbench: &Workbench) -> String {
-    let saved = Saved { version: SAVED_STATE_VERSION, workbench: workbench.clone() };
+    let saved = Saved {
+        version: SAVED_STATE_VERSION,
+        workbench: workbench.clone(),
+    };
     serde_json::to_string(&saved).unwrap_or_default()
 }
 
@@ -227,6 +247,7 @@ const K_MATERIAL: &str = "mat";
 const K_TEMPERATURE: &str = "t";
 const K_DOPANT: &str = "dop";
 const K_INTRINSIC: &str = "ni";
+const K_IONIZATION: &str = "ion";
 const K_BGN: &str = "bgn";
 const K_MOBILITY: &str = "mob";
 const K_THICKNESS: &str = "thick";
@@ -244,12 +265,13 @@ const K_PROBE_D: &str = "dia";
 const K_PROBE_TEMP: &str = "tp";
 
 /// Every key this page writes; a query with none of them is not a workbench link.
-const ALL_KEYS: [&str; 20] = [
+const ALL_KEYS: [&str; 21] = [
     K_VIEW,
     K_MATERIAL,
     K_TEMPERATURE,
     K_DOPANT,
     K_INTRINSIC,
+    K_IONIZATION,
     K_BGN,
     K_MOBILITY,
     K_THICKNESS,
@@ -280,9 +302,14 @@ pub fn to_query(w: &Workbench) -> String {
     ];
     // One `dop` pair per row: `species,density`. Species symbols hold no comma, so
     // the first comma splits the pair even if the density text has one.
-    pairs.extend(c.dopants.iter().map(|d| (K_DOPANT, format!("{},{}", d.species, d.density))));
+    pairs.extend(
+        c.dopants
+            .iter()
+            .map(|d| (K_DOPANT, format!("{},{}", d.species, d.density))),
+    );
     pairs.extend([
         (K_INTRINSIC, c.intrinsic_model.clone()),
+        (K_IONIZATION, c.ionization_model.clone()),
         (K_BGN, if c.band_gap_narrowing { "1" } else { "0" }.into()),
         (K_MOBILITY, c.mobility_model.clone()),
         (K_THICKNESS, c.thickness.clone()),
@@ -308,7 +335,9 @@ pub fn to_query(w: &Workbench) -> String {
 
 /// Whether a query string carries workbench inputs at all.
 pub fn is_workbench_query(query: &str) -> bool {
-    parse_pairs(query).iter().any(|(k, _)| ALL_KEYS.contains(&k.as_str()))
+    parse_pairs(query)
+        .iter()
+        .any(|(k, _)| ALL_KEYS.contains(&k.as_str()))
 }
 
 /// Reads a URL query. Fields missing from it take their defaults; values that cannot be
@@ -324,7 +353,9 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
         match key.as_str() {
             K_VIEW => match View::from_key(&value) {
                 Some(view) => w.view = view,
-                None => notices.push(format!("link: view '{value}' is unknown; showing the carriers view")),
+                None => notices.push(format!(
+                    "link: view '{value}' is unknown; showing the carriers view"
+                )),
             },
             K_MATERIAL => c.material = value,
             K_TEMPERATURE => c.temperature = value,
@@ -336,10 +367,13 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
                 dopants.get_or_insert_with(Vec::new).push(row);
             }
             K_INTRINSIC => c.intrinsic_model = value,
+            K_IONIZATION => c.ionization_model = value,
             K_BGN => match value.as_str() {
                 "1" | "on" | "true" => c.band_gap_narrowing = true,
                 "0" | "off" | "false" => c.band_gap_narrowing = false,
-                _ => notices.push(format!("link: bgn '{value}' is not 0 or 1; band-gap narrowing is off")),
+                _ => notices.push(format!(
+                    "link: bgn '{value}' is not 0 or 1; band-gap narrowing is off"
+                )),
             },
             K_MOBILITY => c.mobility_model = value,
             K_THICKNESS => c.thickness = value,
@@ -348,7 +382,9 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
             K_SWEEP_POINTS => s.points = value,
             K_GIVEN => match Given::from_key(&value) {
                 Some(g) => v.given = g,
-                None => notices.push(format!("link: given '{value}' is not rho or n; resistivity is given")),
+                None => notices.push(format!(
+                    "link: given '{value}' is not rho or n; resistivity is given"
+                )),
             },
             K_VALUE => v.value = value,
             K_CONV_DOPANT => v.dopant = value,
@@ -455,11 +491,16 @@ mod tests {
                     DopantRow::new("Ga", ""),
                 ],
                 intrinsic_model: "model a".into(),
+                ionization_model: "pearson-bardeen".into(),
                 band_gap_narrowing: true,
                 mobility_model: "m&b=c".into(),
                 thickness: "0.5 mm".into(),
             },
-            sweep: SweepInputs { from: "77".into(), to: "500 K".into(), points: "x".into() },
+            sweep: SweepInputs {
+                from: "77".into(),
+                to: "500 K".into(),
+                points: "x".into(),
+            },
             conversion: ConversionInputs {
                 given: Given::Density,
                 value: "1E16 m^-3 #?%".into(),
@@ -497,10 +538,30 @@ mod tests {
 
     #[test]
     fn corrupt_saved_state_is_reported() {
-        for bad in ["", "{", "null", "{\"version\":1}", "[1,2]", "{\"version\":1,\"workbench\":{\"view\":\"Nope\"}}"] {
+        for bad in [
+            "",
+            "{",
+            "null",
+            "{\"version\":1}",
+            "[1,2]",
+            "{\"version\":1,\"workbench\":{\"view\":\"Nope\"}}",
+        ] {
             let err = from_saved_json(bad).expect_err(bad);
             assert!(err.contains("defaults"), "{err}");
         }
+    }
+
+    #[test]
+    fn saved_state_missing_a_newer_field_takes_its_default() {
+        let text =
+            to_saved_json(&sample()).replace("\"ionization_model\":\"pearson-bardeen\",", "");
+        assert!(!text.contains("ionization_model"));
+        let w = from_saved_json(&text).expect("older saved state");
+        assert_eq!(
+            w.carriers.ionization_model,
+            CarrierInputs::default().ionization_model
+        );
+        assert_eq!(w.carriers.material, "ge");
     }
 
     #[test]
@@ -526,7 +587,10 @@ mod tests {
         let saved = to_saved_json(&sample());
         let (w, notices) = initial("t=77", Some(&saved));
         assert_eq!(w.carriers.temperature, "77");
-        assert_eq!(w.carriers.material, "si", "fields missing from a link take defaults");
+        assert_eq!(
+            w.carriers.material, "si",
+            "fields missing from a link take defaults"
+        );
         assert!(notices.is_empty());
         assert_eq!(initial("", Some(&saved)), (sample(), vec![]));
         assert_eq!(initial("", None), (Workbench::default(), vec![]));
@@ -546,7 +610,17 @@ mod tests {
 
     #[test]
     fn percent_coding_round_trips_and_tolerates_junk() {
-        for text in ["", "a b", "1e15 cm^-3", "%", "%4", "%zz", "ohm·cm", "a+b", "&=?#"] {
+        for text in [
+            "",
+            "a b",
+            "1e15 cm^-3",
+            "%",
+            "%4",
+            "%zz",
+            "ohm·cm",
+            "a+b",
+            "&=?#",
+        ] {
             assert_eq!(percent_decode(&percent_encode(text)), text);
         }
         assert_eq!(percent_decode("a+b%20c"), "a b c");
@@ -560,7 +634,11 @@ mod tests {
         let (w, _) = from_query("dop=B,1e16&dop=P,2%2C0e15&dop=Sb");
         assert_eq!(
             w.carriers.dopants,
-            vec![DopantRow::new("B", "1e16"), DopantRow::new("P", "2,0e15"), DopantRow::new("Sb", "")]
+            vec![
+                DopantRow::new("B", "1e16"),
+                DopantRow::new("P", "2,0e15"),
+                DopantRow::new("Sb", "")
+            ]
         );
     }
 }

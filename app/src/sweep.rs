@@ -2,13 +2,13 @@
 //! carriers versus 1000/T, the Fermi level between the band edges versus T, and the
 //! ionized fraction of each species versus T, with the carriers-view temperature marked.
 
+use crate::Bench;
 use crate::carriers::Reading;
 use crate::chart::{Axis, ChartSpec, Corner, Mark, Series, palette};
 use crate::entry;
 use crate::format;
 use crate::state::View;
 use crate::widgets::{Caution, ChartPanel, NumberField};
-use crate::Bench;
 use bandgauge_core::materials::{DopantDensity, Material};
 use bandgauge_core::neutrality::{Equilibrium, SolveOptions};
 use bandgauge_core::sweep;
@@ -60,20 +60,39 @@ pub fn evaluate(
         }
     }
     if solved.is_empty() {
-        let reason = failures.map(|f| f.1).unwrap_or_else(|| "no temperatures".into());
-        return Err(format!("no temperature in the range could be solved: {reason}"));
+        let reason = failures
+            .map(|f| f.1)
+            .unwrap_or_else(|| "no temperatures".into());
+        return Err(format!(
+            "no temperature in the range could be solved: {reason}"
+        ));
     }
-    Ok(SweepOutcome { temperatures_k, points: solved, failures })
+    Ok(SweepOutcome {
+        temperatures_k,
+        points: solved,
+        failures,
+    })
 }
 
 fn temperature_mark(marked_k: Option<f64>, x: impl Fn(f64) -> f64) -> Vec<Mark> {
-    marked_k.map(|t| Mark::Vertical { x: x(t), label: format!("{} K", format::linear_tick(t)) }).into_iter().collect()
+    marked_k
+        .map(|t| Mark::Vertical {
+            x: x(t),
+            label: format!("{} K", format::linear_tick(t)),
+        })
+        .into_iter()
+        .collect()
 }
 
 /// n, p and ni versus 1000/T, log scale.
 pub fn carriers_chart(s: &SweepOutcome, marked_k: Option<f64>) -> ChartSpec {
     let inv = |t: f64| 1000.0 / t;
-    let curve = |f: fn(&Equilibrium) -> f64| s.points.iter().map(|e| (inv(e.temperature_k), f(e))).collect::<Vec<_>>();
+    let curve = |f: fn(&Equilibrium) -> f64| {
+        s.points
+            .iter()
+            .map(|e| (inv(e.temperature_k), f(e)))
+            .collect::<Vec<_>>()
+    };
     let top = s
         .points
         .iter()
@@ -97,9 +116,18 @@ pub fn carriers_chart(s: &SweepOutcome, marked_k: Option<f64>) -> ChartSpec {
         x: Axis::linear("1000/T (1/K)"),
         y,
         series: vec![
-            Series::line("electrons n", curve(|e| e.electrons_cm3), palette::ELECTRONS),
+            Series::line(
+                "electrons n",
+                curve(|e| e.electrons_cm3),
+                palette::ELECTRONS,
+            ),
             Series::line("holes p", curve(|e| e.holes_cm3), palette::HOLES),
-            Series::line("intrinsic ni", curve(|e| e.intrinsic_cm3), palette::INTRINSIC).dashed(),
+            Series::line(
+                "intrinsic ni",
+                curve(|e| e.intrinsic_cm3),
+                palette::INTRINSIC,
+            )
+            .dashed(),
         ],
         marks: temperature_mark(marked_k, inv),
         // Minority carriers and ni fall away to the lower left; the lower right stays free.
@@ -115,7 +143,12 @@ fn labelled(mut s: Series) -> Series {
 
 /// E_F with Ec, Ev and midgap versus T; energies above Ev.
 pub fn fermi_chart(s: &SweepOutcome, marked_k: Option<f64>) -> ChartSpec {
-    let curve = |f: fn(&Equilibrium) -> f64| s.points.iter().map(|e| (e.temperature_k, f(e))).collect::<Vec<_>>();
+    let curve = |f: fn(&Equilibrium) -> f64| {
+        s.points
+            .iter()
+            .map(|e| (e.temperature_k, f(e)))
+            .collect::<Vec<_>>()
+    };
     ChartSpec {
         title: "Fermi level and band edges versus T".into(),
         file_stem: "bandgauge-fermi-level-vs-temperature".into(),
@@ -124,10 +157,18 @@ pub fn fermi_chart(s: &SweepOutcome, marked_k: Option<f64>) -> ChartSpec {
         // Labels at the curve ends instead of a legend: EF wanders over the whole plot.
         series: vec![
             labelled(Series::line("Ec", curve(|e| e.band_gap_ev), palette::BAND)),
-            labelled(Series::line("EF", curve(|e| e.fermi_minus_valence_ev), palette::FERMI)),
+            labelled(Series::line(
+                "EF",
+                curve(|e| e.fermi_minus_valence_ev),
+                palette::FERMI,
+            )),
             labelled(
-                Series::line("midgap", curve(|e| e.fermi_minus_valence_ev - e.fermi_minus_midgap_ev), palette::INTRINSIC)
-                    .dashed(),
+                Series::line(
+                    "midgap",
+                    curve(|e| e.fermi_minus_valence_ev - e.fermi_minus_midgap_ev),
+                    palette::INTRINSIC,
+                )
+                .dashed(),
             ),
             labelled(Series::line("Ev", curve(|_| 0.0), palette::BAND)),
         ],
@@ -142,15 +183,28 @@ pub fn ionization_chart(s: &SweepOutcome, marked_k: Option<f64>) -> ChartSpec {
     let series = (0..count)
         .map(|i| {
             let first = &s.points[0].species[i];
-            let name = format!("{} ({}, {})", first.symbol, first.kind, format::sci(first.density_cm3));
+            let name = format!(
+                "{} ({}, {})",
+                first.symbol,
+                first.kind,
+                format::sci(first.density_cm3)
+            );
             let points = s
                 .points
                 .iter()
-                .filter_map(|e| e.species.get(i).map(|sp| (e.temperature_k, sp.ionized_fraction)))
+                .filter_map(|e| {
+                    e.species
+                        .get(i)
+                        .map(|sp| (e.temperature_k, sp.ionized_fraction))
+                })
                 .collect();
             let line = Series::line(&name, points, palette::nth(i));
             // Fully ionized species all sit at 1: dashes let the curve underneath show through.
-            if first.kind == bandgauge_core::materials::DopantKind::Acceptor { line.dashed() } else { line }
+            if first.kind == bandgauge_core::materials::DopantKind::Acceptor {
+                line.dashed()
+            } else {
+                line
+            }
         })
         .collect();
     ChartSpec {
@@ -175,7 +229,8 @@ pub fn SweepView(
     let (from, set_from) = bench.text(|w| &w.sweep.from, |w| &mut w.sweep.from);
     let (to, set_to) = bench.text(|w| &w.sweep.to, |w| &mut w.sweep.to);
     let (points, set_points) = bench.text(|w| &w.sweep.points, |w| &mut w.sweep.points);
-    let (marked, set_marked) = bench.text(|w| &w.carriers.temperature, |w| &mut w.carriers.temperature);
+    let (marked, set_marked) =
+        bench.text(|w| &w.carriers.temperature, |w| &mut w.carriers.temperature);
     let from_k = Memo::new(move |_| entry::temperature_k("from", &from.get()));
     let to_k = Memo::new(move |_| entry::temperature_k("to", &to.get()));
     let count = Memo::new(move |_| entry::count("points", &points.get(), 2, MAX_POINTS));
@@ -184,18 +239,22 @@ pub fn SweepView(
         let (from, to, n) = (from_k.get().ok()?, to_k.get().ok()?, count.get().ok()?);
         Some(evaluate(&material, &doping, &options, from, to, n))
     });
-    let shown = Memo::new(move |previous: Option<&Option<SweepOutcome>>| match outcome.get() {
-        Some(Ok(o)) => Some(o),
-        _ => previous.cloned().flatten(),
-    });
+    let shown = Memo::new(
+        move |previous: Option<&Option<SweepOutcome>>| match outcome.get() {
+            Some(Ok(o)) => Some(o),
+            _ => previous.cloned().flatten(),
+        },
+    );
     let marked_k = Memo::new(move |_| reading.temperature_k.get().ok());
-    let status = Memo::new(move |_| match outcome.get() {
+    let status = Memo::new(move |_| {
+        match outcome.get() {
         None if reading.problem.with(Option::is_none) => {
             Some("The sample in the carriers view has an invalid field; fix it there. Showing the last valid sweep.".to_string())
         }
         None => Some("Showing the last valid sweep: correct the marked field to update.".to_string()),
         Some(Err(e)) => Some(format!("Cannot compute: {e}. Showing the last valid sweep.")),
         Some(Ok(o)) => o.failures.map(|(n, why)| format!("{n} of {} temperatures could not be solved and are left out: {why}", o.temperatures_k.len())),
+    }
     });
     let chart = move |build: fn(&SweepOutcome, Option<f64>) -> ChartSpec| {
         Signal::derive(move || shown.with(|s| s.as_ref().map(|s| build(s, marked_k.get()))))
@@ -203,16 +262,36 @@ pub fn SweepView(
     let sample = move || {
         let material = reading.material.get().map(|m| m.name).unwrap_or_else(|e| e);
         let doping = inputs.with(|w| {
-            w.carriers.dopants.iter().map(|d| format!("{} {}", d.species, d.density)).collect::<Vec<_>>().join(", ")
+            w.carriers
+                .dopants
+                .iter()
+                .map(|d| format!("{} {}", d.species, d.density))
+                .collect::<Vec<_>>()
+                .join(", ")
         });
-        let doping = if doping.is_empty() { "undoped".to_string() } else { doping };
+        let doping = if doping.is_empty() {
+            "undoped".to_string()
+        } else {
+            doping
+        };
         format!("{material}; {doping}")
     };
     let models = Signal::derive(move || {
         shown.with(|s| {
             s.as_ref()
                 .and_then(|s| s.points.first())
-                .map(|e| e.models.iter().map(|m| (m.quantity.to_string(), m.model.to_string(), m.source.to_string())).collect())
+                .map(|e| {
+                    e.models
+                        .iter()
+                        .map(|m| {
+                            (
+                                m.quantity.to_string(),
+                                m.model.to_string(),
+                                m.source.to_string(),
+                            )
+                        })
+                        .collect()
+                })
                 .unwrap_or_default()
         })
     });
@@ -254,18 +333,30 @@ mod tests {
 
     fn silicon_sweep() -> SweepOutcome {
         let m = materials::silicon();
-        let doping = vec![DopantDensity { dopant: m.dopant("P").expect("P"), density_cm3: 1e15 }];
+        let doping = vec![DopantDensity {
+            dopant: m.dopant("P").expect("P"),
+            density_cm3: 1e15,
+        }];
         evaluate(&m, &doping, &SolveOptions::default(), 100.0, 600.0, 11).expect("sweep")
     }
 
     #[test]
     fn sweep_agrees_with_single_solves() {
         let m = materials::silicon();
-        let doping = vec![DopantDensity { dopant: m.dopant("P").expect("P"), density_cm3: 1e15 }];
+        let doping = vec![DopantDensity {
+            dopant: m.dopant("P").expect("P"),
+            density_cm3: 1e15,
+        }];
         let s = silicon_sweep();
         assert_eq!(s.points.len(), 11);
-        let single = bandgauge_core::neutrality::solve(&m, 350.0, &doping, &SolveOptions::default()).expect("solve");
-        let at = s.points.iter().find(|e| e.temperature_k == 350.0).expect("350 K on the grid");
+        let single =
+            bandgauge_core::neutrality::solve(&m, 350.0, &doping, &SolveOptions::default())
+                .expect("solve");
+        let at = s
+            .points
+            .iter()
+            .find(|e| e.temperature_k == 350.0)
+            .expect("350 K on the grid");
         // Same solver, different starting point: agreement to the solver's own tolerance.
         assert!((at.electrons_cm3 / single.electrons_cm3 - 1.0).abs() < 1e-9);
     }
@@ -277,9 +368,17 @@ mod tests {
         assert_eq!(c.series.len(), 3);
         assert!(c.series.iter().all(|x| x.points.len() == 11));
         assert_eq!(c.series[0].points[0].0, 10.0);
-        assert_eq!(c.marks, vec![Mark::Vertical { x: 4.0, label: "250 K".into() }]);
+        assert_eq!(
+            c.marks,
+            vec![Mark::Vertical {
+                x: 4.0,
+                label: "250 K".into()
+            }]
+        );
         let (lo, hi) = c.y.range.expect("range");
-        assert!(hi / lo <= 10f64.powf(DENSITY_DECADES_SHOWN) * DENSITY_HEADROOM * 2.0 * (1.0 + 1e-12));
+        assert!(
+            hi / lo <= 10f64.powf(DENSITY_DECADES_SHOWN) * DENSITY_HEADROOM * 2.0 * (1.0 + 1e-12)
+        );
         assert!(hi / lo > 10f64.powf(DENSITY_DECADES_SHOWN));
         assert_eq!(fermi_chart(&s, None).marks, vec![]);
         let ion = ionization_chart(&s, Some(300.0));

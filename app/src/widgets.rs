@@ -35,8 +35,14 @@ pub fn NumberField(
 ) -> impl IntoView {
     let message_id = format!("{id}-error");
     let hint_id = format!("{id}-hint");
-    let described_by = if hint.is_empty() { message_id.clone() } else { format!("{hint_id} {message_id}") };
-    let label_text = row.map(|r| format!("{label}, row {r}")).unwrap_or_else(|| label.to_string());
+    let described_by = if hint.is_empty() {
+        message_id.clone()
+    } else {
+        format!("{hint_id} {message_id}")
+    };
+    let label_text = row
+        .map(|r| format!("{label}, row {r}"))
+        .unwrap_or_else(|| label.to_string());
     view! {
         <div class="field" class:invalid=move || error.with(Option::is_some)>
             <label for=id.clone() class:sr-only=hide_label>{label_text}</label>
@@ -89,7 +95,9 @@ pub fn SelectField(
 ) -> impl IntoView {
     let error = error.unwrap_or_else(|| Signal::derive(|| None));
     let message_id = format!("{id}-error");
-    let label_text = row.map(|r| format!("{label}, row {r}")).unwrap_or_else(|| label.to_string());
+    let label_text = row
+        .map(|r| format!("{label}, row {r}"))
+        .unwrap_or_else(|| label.to_string());
     view! {
         <div class="field" class:invalid=move || error.with(Option::is_some)>
             <label for=id.clone() class:sr-only=hide_label>{label_text}</label>
@@ -176,7 +184,9 @@ pub fn ChartPanel(
     let save_csv = move |_| {
         if let Some(spec) = spec.get_untracked() {
             let csv = chart::to_csv(&spec);
-            failure.set(browser::download_text(&csv, "text/csv", &format!("{}.csv", spec.file_stem)).err());
+            failure.set(
+                browser::download_text(&csv, "text/csv", &format!("{}.csv", spec.file_stem)).err(),
+            );
         }
     };
     let title = move || spec.with(|s| s.as_ref().map(|s| s.title.clone()).unwrap_or_default());

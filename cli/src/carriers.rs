@@ -124,6 +124,8 @@ impl CarriersRequest {
         let options = SolveOptions {
             intrinsic_model,
             band_gap_narrowing: args.gap_narrowing.then_some(BgnModel::MaterialSet),
+            // The core's default dopant-level model; the command line does not choose one yet.
+            ..SolveOptions::default()
         };
         Ok(CarriersRequest {
             material,
@@ -224,7 +226,7 @@ fn carrier_error(request: &CarriersRequest, error: CarrierError) -> BadInput {
         }
         CarrierError::InvalidTemperature { .. } => BadInput::new(
             temperature_argument,
-            without_field_name(&error.to_string()).to_owned(),
+            request::without_field_name(&error.to_string()).to_owned(),
         ),
         _ => BadInput::new(
             if request.from_file {
@@ -234,14 +236,6 @@ fn carrier_error(request: &CarriersRequest, error: CarrierError) -> BadInput {
             },
             error.to_string(),
         ),
-    }
-}
-
-/// Drops a leading core field name ("temperature_k: ") where the argument is named instead.
-fn without_field_name(message: &str) -> &str {
-    match message.split_once(": ") {
-        Some((field, rest)) if field.chars().all(|c| c.is_ascii_lowercase() || c == '_') => rest,
-        _ => message,
     }
 }
 
@@ -388,7 +382,7 @@ fn table(request: &CarriersRequest, state: &Equilibrium) -> String {
         ("kT", state.thermal_energy_ev, "eV"),
     ];
     for (label, value, unit) in rows {
-        table.row([label.to_owned(), output::number(value), unit.to_owned()]);
+        table.value_row(label, value, unit);
     }
     table.row(["regime".to_owned(), state.regime.to_string(), String::new()]);
     table.row([
@@ -434,9 +428,7 @@ fn table(request: &CarriersRequest, state: &Equilibrium) -> String {
         ]);
     }
     text.push_str(&models.render());
-    text.push('\n');
-    text.push_str(&caution(state));
-    text.push('\n');
+    text.push_str(&output::closing([], &caution(state)));
     text
 }
 

@@ -95,15 +95,15 @@ impl ConvertRequest {
             ));
         }
         let given = match (&args.resistivity, &args.density) {
-            (Some(text), None) => Given::Resistivity(measured(
-                request::positive("--resistivity", text, QuantityKind::Resistivity)?,
-                "--resistivity-uncertainty",
+            (Some(text), None) => Given::Resistivity(request::positive_measured(
+                "--resistivity",
+                text,
                 args.resistivity_uncertainty.as_deref(),
                 QuantityKind::Resistivity,
             )?),
-            (None, Some(text)) => Given::Density(measured(
-                request::positive("--density", text, QuantityKind::Density)?,
-                "--density-uncertainty",
+            (None, Some(text)) => Given::Density(request::positive_measured(
+                "--density",
+                text,
                 args.density_uncertainty.as_deref(),
                 QuantityKind::Density,
             )?),
@@ -122,30 +122,12 @@ impl ConvertRequest {
             QuantityKind::Temperature,
         )?;
         let model = match &args.model {
-            Some(id) => {
-                let model =
-                    ConversionModel::from_id(id).map_err(|error| conversion_error(given, error))?;
-                if !model.applicable(&material.id, &dopant) {
-                    let applicable: Vec<&str> = ConversionModel::all()
-                        .into_iter()
-                        .filter(|m| m.applicable(&material.id, &dopant))
-                        .map(|m| m.id())
-                        .collect();
-                    return Err(BadInput::new(
-                        "--model",
-                        format!(
-                            "{id:?} does not cover {dopant} in {}; give one of {}",
-                            material.id,
-                            if applicable.is_empty() {
-                                "none: no model covers it".to_owned()
-                            } else {
-                                applicable.join(", ")
-                            }
-                        ),
-                    ));
-                }
-                model
-            }
+            Some(id) => request::covering_model(
+                ConversionModel::from_id(id).map_err(|error| conversion_error(given, error))?,
+                id,
+                &material,
+                &dopant,
+            )?,
             None => ConversionModel::default_for(&material.id, &dopant, temperature_k.value)
                 .ok_or_else(|| no_model(&material, &dopant, temperature_k.value))?,
         };
@@ -161,11 +143,7 @@ impl ConvertRequest {
 }
 
 fn no_model(material: &Material, dopant: &str, temperature_k: f64) -> BadInput {
-    let applicable: Vec<&str> = ConversionModel::all()
-        .into_iter()
-        .filter(|m| m.applicable(&material.id, dopant))
-        .map(|m| m.id())
-        .collect();
+    let applicable = request::models_covering(material, dopant);
     if applicable.is_empty() {
         BadInput::new(
             "--dopant",
@@ -244,30 +222,9 @@ fn uncertainty_error(request: &ConvertRequest, error: UncertaintyError) -> BadIn
         UncertaintyError::Conversion { at, error } if at == "value" => {
             conversion_error(request.given, error)
         }
-        UncertaintyError::Conversion { at, error } => {
-            let argument = uncertainty_argument(at.split(' ').next().unwrap_or_default());
-            BadInput::new(
-                argument,
-                format!("at the {at} end of the uncertainty: {error}"),
-            )
+        other => {
+            request::uncertainty_refusal(other, uncertainty_argument, uncertainty_argument(""))
         }
-        UncertaintyError::ToleranceTooLarge {
-            field,
-            value,
-            half_width,
-        } => {
-            let unit = output::unit_of_field(field);
-            BadInput::new(
-                uncertainty_argument(field),
-                format!(
-                    "{} {unit} reaches the value itself ({} {unit}); give an uncertainty \
-                     smaller than the value",
-                    output::number(half_width),
-                    output::number(value)
-                ),
-            )
-        }
-        other => BadInput::new(uncertainty_argument(""), other.to_string()),
     }
 }
 
@@ -392,26 +349,10 @@ fn table(request: &ConvertRequest, answer: &Answer) -> String {
         Given::Density(_) => "ohm-cm",
     };
     let mut result = Table::new(&["result", "value", "unit"], &[false, true, false]);
-    result.row([
-        "density".to_owned(),
-        output::number(c.density_cm3),
-        "cm^-3".to_owned(),
-    ]);
-    result.row([
-        "resistivity".to_owned(),
-        output::number(c.resistivity_ohm_cm),
-        "ohm-cm".to_owned(),
-    ]);
-    result.row([
-        "interval low".to_owned(),
-        output::number(interval.low),
-        unit.to_owned(),
-    ]);
-    result.row([
-        "interval high".to_owned(),
-        output::number(interval.high),
-        unit.to_owned(),
-    ]);
+    result.value_row("density", c.density_cm3, "cm^-3");
+    result.value_row("resistivity", c.resistivity_ohm_cm, "ohm-cm");
+    result.value_row("interval low", interval.low, unit);
+    result.value_row("interval high", interval.high, unit);
     text.push_str(&result.render());
     text.push_str(&format!(
         "  model: {} ({}), at {} K\n  interval driven by: {}\n",
@@ -473,16 +414,10 @@ fn table(request: &ConvertRequest, answer: &Answer) -> String {
     }
     text.push_str(&contributions.render());
 
-    let notes: Vec<&String> = c.notes.iter().chain(&interval.notes).collect();
-    if !notes.is_empty() {
-        text.push_str("\nNotes\n");
-        for note in notes {
-            text.push_str(&format!("  - {note}\n"));
-        }
-    }
-    text.push('\n');
-    text.push_str(&caution(c));
-    text.push('\n');
+    text.push_str(&output::closing(
+        c.notes.iter().chain(&interval.notes),
+        &caution(c),
+    ));
     text
 }
 

@@ -44,61 +44,31 @@ fn describe(material: &Material) -> String {
     );
     let v = &material.varshni;
     let band_gap_source: &str = &material.sources.band_gap;
-    table.row([
-        "Varshni Eg(0)",
-        &output::number(v.eg0_ev),
-        "eV",
-        band_gap_source,
-    ]);
-    table.row([
-        "Varshni alpha",
-        &output::number(v.alpha_ev_per_k),
-        "eV/K",
-        band_gap_source,
-    ]);
-    table.row([
-        "Varshni beta",
-        &output::number(v.beta_k),
-        "K",
-        band_gap_source,
-    ]);
-    table.row([
-        "Eg(300 K)",
-        &output::number(v.band_gap_ev(LISTING_TEMPERATURE_K)),
-        "eV",
-        "computed from the Varshni parameters",
-    ]);
     let dos_source: &str = &material.sources.density_of_states;
-    table.row([
-        "Nc(300 K)",
-        &output::number(material.nc.at_300k_cm3),
-        "cm^-3",
-        dos_source,
-    ]);
-    table.row([
-        "Nc exponent of T",
-        &output::number(material.nc.exponent),
-        "",
-        dos_source,
-    ]);
-    table.row([
-        "Nv(300 K)",
-        &output::number(material.nv.at_300k_cm3),
-        "cm^-3",
-        dos_source,
-    ]);
-    table.row([
-        "Nv exponent of T",
-        &output::number(material.nv.exponent),
-        "",
-        dos_source,
-    ]);
-    table.row([
-        "ni(300 K), density of states",
-        &output::number(material.intrinsic_density_cm3(LISTING_TEMPERATURE_K)),
-        "cm^-3",
-        "computed: sqrt(Nc Nv) exp(-Eg/2kT)",
-    ]);
+    let rows: [(&str, f64, &str, &str); 9] = [
+        ("Varshni Eg(0)", v.eg0_ev, "eV", band_gap_source),
+        ("Varshni alpha", v.alpha_ev_per_k, "eV/K", band_gap_source),
+        ("Varshni beta", v.beta_k, "K", band_gap_source),
+        (
+            "Eg(300 K)",
+            v.band_gap_ev(LISTING_TEMPERATURE_K),
+            "eV",
+            "computed from the Varshni parameters",
+        ),
+        ("Nc(300 K)", material.nc.at_300k_cm3, "cm^-3", dos_source),
+        ("Nc exponent of T", material.nc.exponent, "", dos_source),
+        ("Nv(300 K)", material.nv.at_300k_cm3, "cm^-3", dos_source),
+        ("Nv exponent of T", material.nv.exponent, "", dos_source),
+        (
+            "ni(300 K), density of states",
+            material.intrinsic_density_cm3(LISTING_TEMPERATURE_K),
+            "cm^-3",
+            "computed: sqrt(Nc Nv) exp(-Eg/2kT)",
+        ),
+    ];
+    for (parameter, value, unit, source) in rows {
+        table.row([parameter, &output::number(value), unit, source]);
+    }
     if let Some(fit) = &material.intrinsic_fit {
         table.row([
             "ni(300 K), direct fit".to_owned(),

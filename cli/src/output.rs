@@ -77,6 +77,11 @@ impl Table {
         self.rows.push(cells.into_iter().map(Into::into).collect());
     }
 
+    /// Appends a row of a label, a number as tables show it, and its unit.
+    pub fn value_row(&mut self, label: impl Into<String>, value: f64, unit: &str) {
+        self.row([label.into(), number(value), unit.to_owned()]);
+    }
+
     /// The table as lines of text, each ending in a newline, indented by two spaces.
     pub fn render(&self) -> String {
         let columns = self
@@ -120,32 +125,55 @@ pub fn caution(models: &str) -> String {
     )
 }
 
+/// The end of every table view: the notes, if any, under a heading, then the caution
+/// line after a blank line.
+pub fn closing<'a>(notes: impl IntoIterator<Item = &'a String>, caution: &str) -> String {
+    let mut text = String::new();
+    let mut notes = notes.into_iter().peekable();
+    if notes.peek().is_some() {
+        text.push_str("\nNotes\n");
+        for note in notes {
+            let _ = writeln!(text, "  - {note}");
+        }
+    }
+    let _ = writeln!(text, "\n{caution}");
+    text
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
 
     #[test]
     fn numbers_have_four_significant_digits() {
-        assert_eq!(number(1.0e15), "1.000e15");
-        assert_eq!(number(1.44), "1.440");
-        assert_eq!(number(0.0258520), "0.02585");
-        assert_eq!(number(300.0), "300.0");
-        assert_eq!(number(-0.2), "-0.2000");
-        assert_eq!(number(12345.6), "12346");
-        assert_eq!(number(123456.0), "1.235e5");
-        assert_eq!(number(0.0), "0");
-        assert_eq!(number(9.65e9), "9.650e9");
-        assert_eq!(number(9.99996), "10.00");
-        assert_eq!(number(99999.7), "1.000e5");
-        assert_eq!(number(0.00099996), "0.001000");
+        for (value, shown) in [
+            (1.0e15, "1.000e15"),
+            (1.44, "1.440"),
+            (0.0258520, "0.02585"),
+            (300.0, "300.0"),
+            (-0.2, "-0.2000"),
+            (12345.6, "12346"),
+            (123456.0, "1.235e5"),
+            (0.0, "0"),
+            (9.65e9, "9.650e9"),
+            (9.99996, "10.00"),
+            (99999.7, "1.000e5"),
+            (0.00099996, "0.001000"),
+        ] {
+            assert_eq!(number(value), shown, "{value}");
+        }
     }
 
     #[test]
     fn temperatures_show_two_decimals_at_most() {
-        assert_eq!(temperature(296.15), "296.15");
-        assert_eq!(temperature(300.0), "300");
-        assert_eq!(temperature(77.5), "77.5");
-        assert_eq!(temperature(25.0), "25");
+        for (value, shown) in [
+            (296.15, "296.15"),
+            (300.0, "300"),
+            (77.5, "77.5"),
+            (25.0, "25"),
+        ] {
+            assert_eq!(temperature(value), shown, "{value}");
+        }
     }
 
     #[test]
@@ -163,6 +191,16 @@ mod tests {
         assert_eq!(
             table.render(),
             "  quantity      value  unit\n  band gap      1.125  eV\n  electrons  1.000e15  cm^-3\n"
+        );
+    }
+
+    #[test]
+    fn closing_lists_notes_only_when_there_are_some() {
+        assert_eq!(closing([], "Caution."), "\nCaution.\n");
+        let notes = ["one".to_owned(), "two".to_owned()];
+        assert_eq!(
+            closing(&notes, "Caution."),
+            "\nNotes\n  - one\n  - two\n\nCaution.\n"
         );
     }
 }

@@ -60,30 +60,25 @@ impl ProbeRequest {
     /// # Errors
     /// [`BadInput`] naming the first refused argument.
     pub fn from_args(args: &ProbeArgs) -> Result<ProbeRequest, BadInput> {
-        let volts = measured(
-            request::positive("--volts", &args.volts, QuantityKind::Voltage)?,
-            "--volts-uncertainty",
-            args.volts_uncertainty.as_deref(),
-            QuantityKind::Voltage,
-        )?;
-        let amps = measured(
-            request::positive("--amps", &args.amps, QuantityKind::Current)?,
-            "--amps-uncertainty",
-            args.amps_uncertainty.as_deref(),
-            QuantityKind::Current,
-        )?;
-        let spacing_cm = measured(
-            request::positive("--spacing", &args.spacing, QuantityKind::Length)?,
-            "--spacing-uncertainty",
-            args.spacing_uncertainty.as_deref(),
-            QuantityKind::Length,
+        use QuantityKind::{Current, Length, Voltage};
+        // Each length or electrical value is > 0, with its uncertainty in `<option>-uncertainty`.
+        let read = |argument, text, uncertainty: &Option<String>, kind| {
+            request::positive_measured(argument, text, uncertainty.as_deref(), kind)
+        };
+        let volts = read("--volts", &args.volts, &args.volts_uncertainty, Voltage)?;
+        let amps = read("--amps", &args.amps, &args.amps_uncertainty, Current)?;
+        let spacing_cm = read(
+            "--spacing",
+            &args.spacing,
+            &args.spacing_uncertainty,
+            Length,
         )?;
         let thickness_cm = match &args.thickness {
-            Some(text) => Some(measured(
-                request::positive("--thickness", text, QuantityKind::Length)?,
-                "--thickness-uncertainty",
-                args.thickness_uncertainty.as_deref(),
-                QuantityKind::Length,
+            Some(text) => Some(read(
+                "--thickness",
+                text,
+                &args.thickness_uncertainty,
+                Length,
             )?),
             None => None,
         };
@@ -147,25 +142,17 @@ fn sample(args: &ProbeArgs, symbol: &str, temperature_k: f64) -> Result<Sample, 
     };
     let dopant = dopant.symbol.to_string();
     let model = match &args.model {
-        Some(id) => {
-            let model = ConversionModel::from_id(id)
-                .map_err(|error| BadInput::new("--model", error_text(&error)))?;
-            if !model.applicable(&material.id, &dopant) {
-                return Err(BadInput::new(
-                    "--model",
-                    format!(
-                        "{id:?} does not cover {dopant} in {}; give one of {}",
-                        material.id,
-                        applicable(&material, &dopant)
-                    ),
-                ));
-            }
-            model
-        }
+        Some(id) => request::covering_model(
+            ConversionModel::from_id(id)
+                .map_err(|error| BadInput::new("--model", error_text(&error)))?,
+            id,
+            &material,
+            &dopant,
+        )?,
         None => {
             ConversionModel::default_for(&material.id, &dopant, temperature_k).ok_or_else(|| {
-                let models = applicable(&material, &dopant);
-                if models.starts_with("none") {
+                let models = request::models_covering(&material, &dopant);
+                if models.is_empty() {
                     BadInput::new(
                         "--dopant",
                         format!("no conversion model covers {dopant} in {}", material.id),
@@ -175,9 +162,10 @@ fn sample(args: &ProbeArgs, symbol: &str, temperature_k: f64) -> Result<Sample, 
                         "--temperature-c",
                         format!(
                             "{} C is outside the range of every model for {dopant} in {} that \
-                             could be chosen by default; name one with --model ({models})",
+                             could be chosen by default; name one with --model ({})",
                             output::temperature(temperature_k - ZERO_CELSIUS_K),
-                            material.id
+                            material.id,
+                            models.join(", ")
                         ),
                     )
                 }
@@ -190,19 +178,6 @@ fn sample(args: &ProbeArgs, symbol: &str, temperature_k: f64) -> Result<Sample, 
         conductivity_type,
         model,
     })
-}
-
-fn applicable(material: &Material, dopant: &str) -> String {
-    let ids: Vec<&str> = ConversionModel::all()
-        .into_iter()
-        .filter(|m| m.applicable(&material.id, dopant))
-        .map(|m| m.id())
-        .collect();
-    if ids.is_empty() {
-        "none: no model covers it".to_owned()
-    } else {
-        ids.join(", ")
-    }
 }
 
 /// The mobility model of the temperature correction: the one named with --model when
@@ -237,13 +212,7 @@ fn correction_mobility(sample: &Sample, temperature_k: f64) -> Result<MobilityMo
 
 /// A core message without its leading field name (the argument is named instead).
 fn error_text(error: &dyn std::fmt::Display) -> String {
-    let message = error.to_string();
-    match message.split_once(": ") {
-        Some((field, rest)) if field.chars().all(|c| c.is_ascii_lowercase() || c == '_') => {
-            rest.to_owned()
-        }
-        _ => message,
-    }
+    request::without_field_name(&error.to_string()).to_owned()
 }
 
 fn probe_error(error: ProbeError) -> BadInput {
@@ -268,27 +237,7 @@ fn uncertainty_error(error: UncertaintyError) -> BadInput {
     match error {
         UncertaintyError::Probe(error) => probe_error(error),
         UncertaintyError::Conversion { at, error } if at == "value" => conversion_error(&error),
-        UncertaintyError::Conversion { at, error } => BadInput::new(
-            uncertainty_argument(at.split(' ').next().unwrap_or_default()),
-            format!("at the {at} end of the uncertainty: {error}"),
-        ),
-        UncertaintyError::ToleranceTooLarge {
-            field,
-            value,
-            half_width,
-        } => {
-            let unit = output::unit_of_field(field);
-            BadInput::new(
-                uncertainty_argument(field),
-                format!(
-                    "{} {unit} reaches the value itself ({} {unit}); give an uncertainty \
-                     smaller than the value",
-                    output::number(half_width),
-                    output::number(value)
-                ),
-            )
-        }
-        other => BadInput::new("--volts-uncertainty", other.to_string()),
+        other => request::uncertainty_refusal(other, uncertainty_argument, "--volts-uncertainty"),
     }
 }
 
@@ -437,44 +386,24 @@ fn table(request: &ProbeRequest, result: &ProbeResult, interval: Option<&Interva
     }
     let mut text = format!("{heading}\n\n");
     let mut values = Table::new(&["result", "value", "unit"], &[false, true, false]);
-    values.row([
-        "V/I".to_owned(),
-        output::number(r.volts / r.amps),
-        "ohm".to_owned(),
-    ]);
+    values.value_row("V/I", r.volts / r.amps, "ohm");
     if let Some(sheet) = result.sheet_resistance_ohm_sq {
-        values.row([
-            "sheet resistance".to_owned(),
-            output::number(sheet),
-            "ohm/sq".to_owned(),
-        ]);
+        values.value_row("sheet resistance", sheet, "ohm/sq");
     }
     let at = if r.temperature.is_some() {
         "resistivity at 23 C"
     } else {
         "resistivity"
     };
-    values.row([
-        at.to_owned(),
-        output::number(result.resistivity_ohm_cm),
-        "ohm-cm".to_owned(),
-    ]);
+    values.value_row(at, result.resistivity_ohm_cm, "ohm-cm");
     if let (Some(sample), Some(interval)) = (&request.sample, interval) {
-        values.row([
+        values.value_row(
             format!("{} density", sample.dopant),
-            output::number(interval.value),
-            "cm^-3".to_owned(),
-        ]);
-        values.row([
-            "density interval low".to_owned(),
-            output::number(interval.low),
-            "cm^-3".to_owned(),
-        ]);
-        values.row([
-            "density interval high".to_owned(),
-            output::number(interval.high),
-            "cm^-3".to_owned(),
-        ]);
+            interval.value,
+            "cm^-3",
+        );
+        values.value_row("density interval low", interval.low, "cm^-3");
+        values.value_row("density interval high", interval.high, "cm^-3");
     }
     text.push_str(&values.render());
     text.push_str(&format!("  geometry: {}\n", result.geometry));
@@ -508,19 +437,12 @@ fn table(request: &ProbeRequest, result: &ProbeResult, interval: Option<&Interva
         }
         text.push_str(&contributions.render());
     }
-    let notes: Vec<&String> = result
-        .notes
-        .iter()
-        .chain(interval.iter().flat_map(|i| &i.notes))
-        .collect();
-    if !notes.is_empty() {
-        text.push_str("\nNotes\n");
-        for note in notes {
-            text.push_str(&format!("  - {note}\n"));
-        }
-    }
-    text.push('\n');
-    text.push_str(&caution(result, request.sample.as_ref()));
-    text.push('\n');
+    text.push_str(&output::closing(
+        result
+            .notes
+            .iter()
+            .chain(interval.iter().flat_map(|i| &i.notes)),
+        &caution(result, request.sample.as_ref()),
+    ));
     text
 }

@@ -4,13 +4,15 @@
 //! physics runs. Limits that belong to a model (its validity range) are left to
 //! the core, whose errors the commands map back to the argument concerned.
 
+use bandgauge_core::compare::ConversionModel;
 use bandgauge_core::materials::{self, Dopant, DopantDensity, DopantKind, Material, MaterialError};
-use bandgauge_core::uncertainty::Measured;
+use bandgauge_core::uncertainty::{Measured, UncertaintyError};
 use bandgauge_core::units::{self, QuantityKind, Spread};
 use std::fs;
 use std::path::Path;
 
 use crate::error::BadInput;
+use crate::output;
 
 /// Reads a quantity of `kind` in its default unit.
 pub fn quantity(argument: &str, text: &str, kind: QuantityKind) -> Result<f64, BadInput> {
@@ -19,27 +21,28 @@ pub fn quantity(argument: &str, text: &str, kind: QuantityKind) -> Result<f64, B
 
 /// Reads a quantity that must be > 0.
 pub fn positive(argument: &str, text: &str, kind: QuantityKind) -> Result<f64, BadInput> {
-    let value = quantity(argument, text, kind)?;
-    require_positive(argument, text, kind, value)
+    above_zero(argument, quantity(argument, text, kind)?, || {
+        format!(
+            "{text:?} is not allowed; give a {kind} > 0 {}",
+            kind.default_unit()
+        )
+    })
 }
 
-fn require_positive(
+/// Reads a quantity that must be > 0, with the uncertainty given for it in the option
+/// of the same name ending in `-uncertainty` (`--volts` and `--volts-uncertainty`).
+pub fn positive_measured(
     argument: &str,
     text: &str,
+    uncertainty_text: Option<&str>,
     kind: QuantityKind,
-    value: f64,
-) -> Result<f64, BadInput> {
-    if value > 0.0 {
-        Ok(value)
-    } else {
-        Err(BadInput::new(
-            argument,
-            format!(
-                "{text:?} is not allowed; give a {kind} > 0 {}",
-                kind.default_unit()
-            ),
-        ))
-    }
+) -> Result<Measured, BadInput> {
+    measured(
+        positive(argument, text, kind)?,
+        &format!("{argument}-uncertainty"),
+        uncertainty_text,
+        kind,
+    )
 }
 
 /// Reads an absolute temperature (bare numbers in kelvin) that must be > 0 K.
@@ -56,16 +59,24 @@ pub fn temperature_c_in_k(argument: &str, text: &str) -> Result<f64, BadInput> {
 }
 
 fn temperature_above_zero(argument: &str, text: &str, value_k: f64) -> Result<f64, BadInput> {
-    if value_k > 0.0 {
-        Ok(value_k)
+    above_zero(argument, value_k, || {
+        format!(
+            "{text:?} is {} K, not allowed; give a temperature > 0 K, e.g. 300, 300K or 27C",
+            output::temperature(value_k)
+        )
+    })
+}
+
+/// `value` when it is > 0 (NaN is not), else a refusal of `argument` saying `refusal()`.
+fn above_zero(
+    argument: &str,
+    value: f64,
+    refusal: impl FnOnce() -> String,
+) -> Result<f64, BadInput> {
+    if value > 0.0 {
+        Ok(value)
     } else {
-        Err(BadInput::new(
-            argument,
-            format!(
-                "{text:?} is {} K, not allowed; give a temperature > 0 K, e.g. 300, 300K or 27C",
-                crate::output::temperature(value_k)
-            ),
-        ))
+        Err(BadInput::new(argument, refusal()))
     }
 }
 
@@ -88,6 +99,83 @@ pub fn measured(
             Spread::Absolute(half_width) => Measured::absolute(value, half_width),
         },
     })
+}
+
+/// An uncertainty the core refused, in the command line's words: a model that refuses an
+/// end of the interval, or a half-width that reaches the value. `option_for` names the
+/// command's uncertainty option of a core field ("volts" gives "--volts-uncertainty");
+/// any other refusal is put on `otherwise`. A refusal of the value itself is the
+/// command's to word, before it calls this.
+pub fn uncertainty_refusal(
+    error: UncertaintyError,
+    option_for: fn(&str) -> &'static str,
+    otherwise: &str,
+) -> BadInput {
+    match error {
+        UncertaintyError::Conversion { at, error } => BadInput::new(
+            option_for(at.split(' ').next().unwrap_or_default()),
+            format!("at the {at} end of the uncertainty: {error}"),
+        ),
+        UncertaintyError::ToleranceTooLarge {
+            field,
+            value,
+            half_width,
+        } => {
+            let unit = output::unit_of_field(field);
+            BadInput::new(
+                option_for(field),
+                format!(
+                    "{} {unit} reaches the value itself ({} {unit}); give an uncertainty \
+                     smaller than the value",
+                    output::number(half_width),
+                    output::number(value)
+                ),
+            )
+        }
+        other => BadInput::new(otherwise, other.to_string()),
+    }
+}
+
+/// Drops a leading core field name ("temperature_k: ") where the argument is named instead.
+pub fn without_field_name(message: &str) -> &str {
+    match message.split_once(": ") {
+        Some((field, rest)) if field.chars().all(|c| c.is_ascii_lowercase() || c == '_') => rest,
+        _ => message,
+    }
+}
+
+/// The ids of the conversion models that cover `dopant` in `material`, in the core's order.
+pub fn models_covering(material: &Material, dopant: &str) -> Vec<&'static str> {
+    ConversionModel::all()
+        .into_iter()
+        .filter(|m| m.applicable(&material.id, dopant))
+        .map(|m| m.id())
+        .collect()
+}
+
+/// `model`, named `id` with --model, refused when it does not cover `dopant` in `material`.
+pub fn covering_model(
+    model: ConversionModel,
+    id: &str,
+    material: &Material,
+    dopant: &str,
+) -> Result<ConversionModel, BadInput> {
+    if model.applicable(&material.id, dopant) {
+        return Ok(model);
+    }
+    let covering = models_covering(material, dopant);
+    Err(BadInput::new(
+        "--model",
+        format!(
+            "{id:?} does not cover {dopant} in {}; give one of {}",
+            material.id,
+            if covering.is_empty() {
+                "none: no model covers it".to_owned()
+            } else {
+                covering.join(", ")
+            }
+        ),
+    ))
 }
 
 /// Looks up a built-in material.

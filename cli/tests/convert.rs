@@ -6,7 +6,7 @@ use bandgauge_core::compare::{self, ConversionInput, ConversionModel};
 use bandgauge_core::materials;
 use bandgauge_core::neutrality::SolveOptions;
 use serde_json::Value;
-use support::{bandgauge, json, number, refused, relative_difference, success};
+use support::{assert_near, json, number, refused, relative_difference, success, usage_error};
 
 /// The handbook prints three significant digits: half a unit in the third digit of
 /// the smallest mantissa used here (1.44) is 0.35 %.
@@ -17,6 +17,11 @@ const PHYSICS_VERSUS_HANDBOOK: f64 = 3e-2;
 /// Same computation in a differently optimised build (the binary versus this test):
 /// a few ulp, amplified at most by the inversion's tolerance (1e-9).
 const SAME_CODE_OTHER_BUILD: f64 = 1e-9;
+
+/// The binary's number `key` equals the core's own result up to the build difference.
+fn assert_same_as_core(output: &Value, key: &str, core: f64) {
+    assert_near(output, key, core, SAME_CODE_OTHER_BUILD);
+}
 
 fn core_conversion(
     dopant: &str,
@@ -37,16 +42,7 @@ fn core_conversion(
 
 #[test]
 fn json_has_the_required_keys_and_equals_the_core_result() {
-    let output = json(&[
-        "convert",
-        "--material",
-        "si",
-        "--dopant",
-        "B",
-        "--density",
-        "1e16",
-        "--json",
-    ]);
+    let output = json("convert --material si --dopant B --density 1e16 --json");
     for key in [
         "density_cm3",
         "resistivity_ohm_cm",
@@ -66,18 +62,11 @@ fn json_has_the_required_keys_and_equals_the_core_result() {
         296.15,
         ConversionModel::Empirical,
     );
-    assert!(
-        relative_difference(
-            number(&output, "resistivity_ohm_cm"),
-            core.resistivity_ohm_cm
-        ) < SAME_CODE_OTHER_BUILD
-    );
+    assert_same_as_core(&output, "resistivity_ohm_cm", core.resistivity_ohm_cm);
 
     // Source: Hull (ed.), Properties of Crystalline Silicon, EMIS Datareviews 20 (1999),
     // resistivity-density table: p-type (boron) 1e16 cm^-3 -> 1.44 ohm cm.
-    assert!(
-        relative_difference(number(&output, "resistivity_ohm_cm"), 1.44) < HANDBOOK_THREE_DIGITS
-    );
+    assert_near(&output, "resistivity_ohm_cm", 1.44, HANDBOOK_THREE_DIGITS);
 
     // models[]: one entry per applicable model, each {model, density_cm3, resistivity_ohm_cm}.
     let models = output["models"].as_array().unwrap();
@@ -96,16 +85,13 @@ fn json_has_the_required_keys_and_equals_the_core_result() {
         296.15,
         ConversionModel::Physics(bandgauge_core::mobility::MobilityModel::Masetti),
     );
-    assert!(
-        relative_difference(
-            number(masetti, "resistivity_ohm_cm"),
-            core_masetti.resistivity_ohm_cm
-        ) < SAME_CODE_OTHER_BUILD
+    assert_same_as_core(
+        masetti,
+        "resistivity_ohm_cm",
+        core_masetti.resistivity_ohm_cm,
     );
     // Source: Hull 1999 table as above, 1.44 ohm cm; the physics model is independent of it.
-    assert!(
-        relative_difference(number(masetti, "resistivity_ohm_cm"), 1.44) < PHYSICS_VERSUS_HANDBOOK
-    );
+    assert_near(masetti, "resistivity_ohm_cm", 1.44, PHYSICS_VERSUS_HANDBOOK);
     // The lattice-only model cannot reach 1e16 cm^-3 and is listed with its reason.
     assert!(models[3]["resistivity_ohm_cm"].is_null());
     assert!(models[3]["error"].is_string());
@@ -125,43 +111,25 @@ fn json_has_the_required_keys_and_equals_the_core_result() {
 fn phosphorus_both_directions_against_the_handbook() {
     // Source: Hull (ed.), Properties of Crystalline Silicon, EMIS Datareviews 20 (1999):
     // n-type (phosphorus) 1e16 cm^-3 -> 0.523 ohm cm; 1e15 -> 4.48 ohm cm.
-    let forward = json(&["convert", "--dopant", "P", "--density", "1e16", "--json"]);
+    let forward = json("convert --dopant P --density 1e16 --json");
     assert_eq!(forward["type"], "n");
-    assert!(
-        relative_difference(number(&forward, "resistivity_ohm_cm"), 0.523) < HANDBOOK_THREE_DIGITS
-    );
-    let back = json(&[
-        "convert",
-        "--dopant",
-        "P",
-        "--resistivity",
-        "4.48",
-        "--json",
-    ]);
+    assert_near(&forward, "resistivity_ohm_cm", 0.523, HANDBOOK_THREE_DIGITS);
+    let back = json("convert --dopant P --resistivity 4.48 --json");
     let core = core_conversion(
         "P",
         ConversionInput::ResistivityOhmCm(4.48),
         296.15,
         ConversionModel::Empirical,
     );
-    assert!(
-        relative_difference(number(&back, "density_cm3"), core.density_cm3) < SAME_CODE_OTHER_BUILD
-    );
+    assert_same_as_core(&back, "density_cm3", core.density_cm3);
     // Source: ASTM F723 states round-trip self-consistency within 4.5 % for phosphorus;
     // the handbook's 4.48 ohm cm belongs to 1e15 cm^-3.
-    assert!(relative_difference(number(&back, "density_cm3"), 1e15) < 0.045);
+    assert_near(&back, "density_cm3", 1e15, 0.045);
 }
 
 #[test]
 fn units_on_the_input_are_read() {
-    let plain = json(&[
-        "convert",
-        "--dopant",
-        "B",
-        "--resistivity",
-        "0.85",
-        "--json",
-    ]);
+    let plain = json("convert --dopant B --resistivity 0.85 --json");
     for text in [
         "850 mohm-cm",
         "850mohm-cm",
@@ -169,38 +137,20 @@ fn units_on_the_input_are_read() {
         "0.0085 ohm-m",
         "0.85 Ω·cm",
     ] {
-        let other = json(&["convert", "--dopant", "B", "--resistivity", text, "--json"]);
+        let other = json(&format!("convert --dopant B --resistivity '{text}' --json"));
         assert!(
             relative_difference(number(&other, "density_cm3"), number(&plain, "density_cm3"))
                 < 1e-12,
             "{text}"
         );
     }
-    let per_m3 = json(&[
-        "convert",
-        "--dopant",
-        "B",
-        "--density",
-        "1e22m^-3",
-        "--json",
-    ]);
+    let per_m3 = json("convert --dopant B --density 1e22m^-3 --json");
     assert_eq!(number(&per_m3, "density_cm3"), 1e16);
 }
 
 #[test]
 fn a_named_model_and_temperature_are_used() {
-    let output = json(&[
-        "convert",
-        "--dopant",
-        "P",
-        "--density",
-        "1e15",
-        "--model",
-        "masetti",
-        "--temperature",
-        "300",
-        "--json",
-    ]);
+    let output = json("convert --dopant P --density 1e15 --model masetti --temperature 300 --json");
     assert_eq!(output["model"], "masetti");
     assert_eq!(number(&output, "temperature_k"), 300.0);
     let core = core_conversion(
@@ -209,12 +159,7 @@ fn a_named_model_and_temperature_are_used() {
         300.0,
         ConversionModel::Physics(bandgauge_core::mobility::MobilityModel::Masetti),
     );
-    assert!(
-        relative_difference(
-            number(&output, "resistivity_ohm_cm"),
-            core.resistivity_ohm_cm
-        ) < SAME_CODE_OTHER_BUILD
-    );
+    assert_same_as_core(&output, "resistivity_ohm_cm", core.resistivity_ohm_cm);
     // At 300 K the empirical relation (23 C only) is listed but not counted in the spread.
     let thurber = output["models"]
         .as_array()
@@ -224,34 +169,15 @@ fn a_named_model_and_temperature_are_used() {
         .unwrap();
     assert_eq!(thurber["in_spread"], false);
     // Celsius is read too: 27C is 300.15 K.
-    let celsius = json(&[
-        "convert",
-        "--dopant",
-        "P",
-        "--density",
-        "1e15",
-        "--model",
-        "masetti",
-        "--temperature",
-        "27C",
-        "--json",
-    ]);
+    let celsius =
+        json("convert --dopant P --density 1e15 --model masetti --temperature 27C --json");
     assert_eq!(number(&celsius, "temperature_k"), 300.15);
 }
 
 #[test]
 fn uncertainty_widens_the_interval_and_names_what_drives_it() {
-    let without = json(&["convert", "--dopant", "B", "--resistivity", "10", "--json"]);
-    let with = json(&[
-        "convert",
-        "--dopant",
-        "B",
-        "--resistivity",
-        "10",
-        "--resistivity-uncertainty",
-        "5%",
-        "--json",
-    ]);
+    let without = json("convert --dopant B --resistivity 10 --json");
+    let with = json("convert --dopant B --resistivity 10 --resistivity-uncertainty 5% --json");
     let width = |v: &Value| number(&v["interval"], "high") / number(&v["interval"], "low");
     assert!(width(&with) > width(&without));
     assert_eq!(with["interval"]["quantity"], "density_cm3");
@@ -266,22 +192,14 @@ fn uncertainty_widens_the_interval_and_names_what_drives_it() {
     let half_width = number(contribution, "relative_half_width");
     assert!((0.045..0.06).contains(&half_width), "{half_width}");
     // An amount in a unit means the same as the percentage.
-    let absolute = json(&[
-        "convert",
-        "--dopant",
-        "B",
-        "--resistivity",
-        "10",
-        "--resistivity-uncertainty",
-        "500mohm-cm",
-        "--json",
-    ]);
+    let absolute =
+        json("convert --dopant B --resistivity 10 --resistivity-uncertainty 500mohm-cm --json");
     assert_eq!(absolute["interval"], with["interval"]);
 }
 
 #[test]
 fn table_lists_every_model_and_ends_with_the_caution() {
-    let text = success(&["convert", "--dopant", "B", "--resistivity", "10"]);
+    let text = success("convert --dopant B --resistivity 10");
     assert!(
         text.starts_with(
             "Silicon (si) doped with B, p-type, at 296.15 K: resistivity 10.00 ohm-cm\n"
@@ -324,27 +242,27 @@ fn table_lists_every_model_and_ends_with_the_caution() {
 #[test]
 fn refused_values() {
     refused(
-        &["convert", "--dopant", "B", "--resistivity", "0"],
+        "convert --dopant B --resistivity 0",
         "--resistivity: \"0\" is not allowed; give a resistivity > 0 ohm-cm",
     );
     refused(
-        &["convert", "--dopant", "B", "--resistivity", "-5"],
+        "convert --dopant B --resistivity -5",
         "--resistivity: \"-5\" is not allowed; give a resistivity > 0 ohm-cm",
     );
     refused(
-        &["convert", "--dopant", "B", "--resistivity", "2,5"],
+        "convert --dopant B --resistivity 2,5",
         "--resistivity: \"2,5\" contains a comma; write decimals with a point (2.5, not 2,5) and no thousands separators",
     );
     refused(
-        &["convert", "--dopant", "B", "--resistivity", "10 ohm"],
+        "convert --dopant B --resistivity '10 ohm'",
         "--resistivity: \"10 ohm\": \"ohm\" is not an accepted resistivity unit; allowed: ohm-cm (default), mohm-cm, kohm-cm, ohm-m",
     );
     refused(
-        &["convert", "--dopant", "B", "--resistivity", "inf"],
+        "convert --dopant B --resistivity inf",
         "--resistivity: \"inf\" is not a number; give a resistivity such as 10 or 850 mohm-cm; units: ohm-cm (default), mohm-cm, kohm-cm, ohm-m",
     );
     refused(
-        &["convert", "--dopant", "P", "--density", "-1e15"],
+        "convert --dopant P --density -1e15",
         "--density: \"-1e15\" is not allowed; give a density > 0 cm^-3",
     );
 }
@@ -353,52 +271,26 @@ fn refused_values() {
 fn refused_outside_a_model_validity() {
     // Source: the stated range of the boron relation, 1e-4 to 1e4 ohm cm (ASTM F723).
     refused(
-        &["convert", "--dopant", "B", "--resistivity", "1e6"],
+        "convert --dopant B --resistivity 1e6",
         "--resistivity: 1e6 is outside the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
     );
     refused(
-        &["convert", "--dopant", "P", "--density", "1e22"],
+        "convert --dopant P --density 1e22",
         "--density: 1.0000e22 is outside the phosphorus relation (ASTM F723, 23 C); give 1.066e12 to 5.000e20 cm^-3 \
          (the phosphorus relations break down above 5e20 cm^-3)",
     );
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "10",
-            "--model",
-            "thurber",
-            "--temperature",
-            "350",
-        ],
+        "convert --dopant B --resistivity 10 --model thurber --temperature 350",
         "--temperature: 350 is not allowed for the empirical relation, which holds at 23 C; give 295.15 to 297.15 K, \
          correct the reading to 23 C first, or choose a physics model",
     );
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "10",
-            "--temperature",
-            "600",
-        ],
+        "convert --dopant B --resistivity 10 --temperature 600",
         "--temperature: 600 K is outside the range of every model for B in si that could be chosen by default; \
          name one with --model (thurber, masetti, arora, lattice)",
     );
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "1e-4",
-            "--resistivity-uncertainty",
-            "10%",
-        ],
+        "convert --dopant B --resistivity 1e-4 --resistivity-uncertainty 10%",
         "--resistivity-uncertainty: at the resistivity_ohm_cm low end of the uncertainty: resistivity_ohm_cm: 9e-5 \
          is outside the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
     );
@@ -407,68 +299,28 @@ fn refused_outside_a_model_validity() {
 #[test]
 fn refused_dopants_models_and_uncertainties() {
     refused(
-        &["convert", "--dopant", "Xx", "--resistivity", "10"],
+        "convert --dopant Xx --resistivity 10",
         "--dopant: \"Xx\" is not a known dopant of si; choose one of P, As, Sb, B, Al, Ga, In",
     );
     refused(
-        &[
-            "convert",
-            "--material",
-            "ge",
-            "--dopant",
-            "P",
-            "--resistivity",
-            "10",
-        ],
+        "convert --material ge --dopant P --resistivity 10",
         "--dopant: no conversion model covers P in ge; see `bandgauge materials`",
     );
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "10",
-            "--model",
-            "foo",
-        ],
+        "convert --dopant B --resistivity 10 --model foo",
         "--model: 'foo' is not known; use one of thurber, masetti, arora, caughey-thomas, lattice",
     );
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "10",
-            "--model",
-            "caughey-thomas",
-        ],
+        "convert --dopant B --resistivity 10 --model caughey-thomas",
         "--model: \"caughey-thomas\" does not cover B in si; give one of thurber, masetti, arora, lattice",
     );
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "10",
-            "--resistivity-uncertainty",
-            "-2%",
-        ],
+        "convert --dopant B --resistivity 10 --resistivity-uncertainty -2%",
         "--resistivity-uncertainty: \"-2%\" is negative; give a resistivity uncertainty >= 0, as a percentage (2%) \
          or an amount in ohm-cm (default), mohm-cm, kohm-cm, ohm-m",
     );
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "10",
-            "--resistivity-uncertainty",
-            "100%",
-        ],
+        "convert --dopant B --resistivity 10 --resistivity-uncertainty 100%",
         "--resistivity-uncertainty: 10.00 ohm-cm reaches the value itself (10.00 ohm-cm); give an uncertainty smaller than the value",
     );
 }
@@ -476,49 +328,18 @@ fn refused_dopants_models_and_uncertainties() {
 #[test]
 fn an_uncertainty_must_belong_to_the_given_value() {
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--density",
-            "1e16",
-            "--resistivity-uncertainty",
-            "2%",
-        ],
+        "convert --dopant B --density 1e16 --resistivity-uncertainty 2%",
         "--resistivity-uncertainty: applies only to the value converted from; give --density-uncertainty with --density",
     );
     refused(
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "10",
-            "--density-uncertainty",
-            "2%",
-        ],
+        "convert --dopant B --resistivity 10 --density-uncertainty 2%",
         "--density-uncertainty: applies only to the value converted from; give --resistivity-uncertainty with --resistivity",
     );
 }
 
 #[test]
 fn usage_errors_exit_with_code_2() {
-    for args in [
-        &[
-            "convert",
-            "--dopant",
-            "B",
-            "--resistivity",
-            "10",
-            "--density",
-            "1e15",
-        ][..],
-        &["convert", "--dopant", "B"],
-        &["convert", "--resistivity", "10"],
-    ] {
-        let run = bandgauge(args);
-        assert_eq!(run.code, 2, "{args:?}");
-        assert!(run.stdout.is_empty());
-        assert!(run.stderr.starts_with("error: "), "{}", run.stderr);
-    }
+    usage_error("convert --dopant B --resistivity 10 --density 1e15");
+    usage_error("convert --dopant B");
+    usage_error("convert --resistivity 10");
 }

@@ -4,7 +4,7 @@ mod support;
 
 use bandgauge_core::materials::{self, Material};
 use serde_json::Value;
-use support::{json, number, success};
+use support::{json, number, relative_difference, success};
 
 /// The Varshni parameters are stored as published; JSON round trips f64 exactly.
 const EXACT: f64 = 0.0;
@@ -21,7 +21,7 @@ fn assert_close(actual: &Value, expected: &Value, path: &str) {
         (Value::Number(a), Value::Number(e)) => {
             let (a, e) = (a.as_f64().unwrap(), e.as_f64().unwrap());
             assert!(
-                a == e || ((a - e) / e).abs() < SAME_CODE_OTHER_BUILD,
+                a == e || relative_difference(a, e) < SAME_CODE_OTHER_BUILD,
                 "{path}: {a} vs {e}"
             );
         }
@@ -47,7 +47,7 @@ fn assert_close(actual: &Value, expected: &Value, path: &str) {
 
 #[test]
 fn json_lists_exactly_the_core_materials() {
-    let output = json(&["materials", "--json"]);
+    let output = json("materials --json");
     let listed: Vec<Material> =
         serde_json::from_value(output.clone()).expect("each entry is a whole material");
     assert_eq!(listed.len(), materials::builtin().len());
@@ -67,7 +67,7 @@ fn json_lists_exactly_the_core_materials() {
 
 #[test]
 fn published_silicon_parameters_with_their_sources() {
-    let output = json(&["materials", "--json"]);
+    let output = json("materials --json");
     let si = &output[0];
     // Source: Thurmond, J. Electrochem. Soc. 122, 1133 (1975): Eg0 = 1.17 eV,
     // alpha = 4.73e-4 eV/K, beta = 636 K.
@@ -106,7 +106,7 @@ fn published_silicon_parameters_with_their_sources() {
 
 #[test]
 fn table_names_each_material_parameter_and_source() {
-    let text = success(&["materials"]);
+    let text = success("materials");
     for material in materials::builtin() {
         assert!(
             text.contains(&format!("{} ({})\n", material.name, material.id)),

@@ -7,7 +7,8 @@ use std::f64::consts::{LN_2, PI};
 use bandgauge_core::materials;
 use bandgauge_core::mobility::MobilityModel;
 use bandgauge_core::probe::{self, ProbeReading, ReadingTemperature};
-use support::{bandgauge, json, number, refused, relative_difference, success};
+use serde_json::Value;
+use support::{assert_near, json, number, refused, relative_difference, success, usage_error};
 
 /// Closed-form probe formulas evaluated twice in f64: a few ulp.
 const FORMULA_ROUNDING: f64 = 1e-14;
@@ -17,6 +18,11 @@ const SAME_CODE_OTHER_BUILD: f64 = 1e-9;
 const FOUR_DECIMAL_TABLE: f64 = 1e-4;
 /// His formula and printed table agree to about 1e-4 (rounding of the table).
 const SMITS_TABLE_AGREEMENT: f64 = 2e-4;
+
+/// The binary's number `key` equals the core's own result up to the build difference.
+fn assert_same_as_core(output: &Value, key: &str, core: f64) {
+    assert_near(output, key, core, SAME_CODE_OTHER_BUILD);
+}
 
 fn reading(thickness_cm: Option<f64>, diameter_cm: Option<f64>) -> ProbeReading {
     ProbeReading {
@@ -31,21 +37,10 @@ fn reading(thickness_cm: Option<f64>, diameter_cm: Option<f64>) -> ProbeReading 
 
 #[test]
 fn semi_infinite_body() {
-    let output = json(&[
-        "probe",
-        "--volts",
-        "0.0125",
-        "--amps",
-        "0.001",
-        "--spacing",
-        "0.1",
-        "--json",
-    ]);
+    let output = json("probe --volts 0.0125 --amps 0.001 --spacing 0.1 --json");
     // Source: Valdes, Proc. IRE 42, 420 (1954): rho = 2 pi s V/I for a semi-infinite body.
     let expected = 2.0 * PI * 0.1 * 12.5;
-    assert!(
-        relative_difference(number(&output, "resistivity_ohm_cm"), expected) < FORMULA_ROUNDING
-    );
+    assert_near(&output, "resistivity_ohm_cm", expected, FORMULA_ROUNDING);
     assert!(output["sheet_resistance_ohm_sq"].is_null());
     assert_eq!(output["geometry"], "semi-infinite");
     assert_eq!(output["corrections"], serde_json::json!({}));
@@ -54,54 +49,25 @@ fn semi_infinite_body() {
 #[test]
 fn thin_layer_tends_to_pi_over_ln_2() {
     // t/s = 0.001: the thickness factor differs from 1 by far less than the tolerance.
-    let output = json(&[
-        "probe",
-        "--volts",
-        "0.0125",
-        "--amps",
-        "0.001",
-        "--spacing",
-        "0.1",
-        "--thickness",
-        "1e-4",
-        "--json",
-    ]);
+    let output = json("probe --volts 0.0125 --amps 0.001 --spacing 0.1 --thickness 1e-4 --json");
     // Source: Smits, Bell Syst. Tech. J. 37, 711 (1958) (and Valdes 1954): R_s = (pi/ln 2) V/I
     // = 4.532 V/I for an infinitely thin, infinitely large sheet.
     let expected = PI / LN_2 * 12.5;
-    assert!(relative_difference(number(&output, "sheet_resistance_ohm_sq"), expected) < 1e-6);
-    assert!(relative_difference(number(&output, "resistivity_ohm_cm"), expected * 1e-4) < 1e-6);
+    assert_near(&output, "sheet_resistance_ohm_sq", expected, 1e-6);
+    assert_near(&output, "resistivity_ohm_cm", expected * 1e-4, 1e-6);
 }
 
 #[test]
 fn json_has_every_correction_by_name_and_equals_the_core_result() {
-    let output = json(&[
-        "probe",
-        "--volts",
-        "0.0125",
-        "--amps",
-        "0.001",
-        "--spacing",
-        "0.1",
-        "--thickness",
-        "0.1",
-        "--diameter",
-        "4",
-        "--json",
-    ]);
+    let output =
+        json("probe --volts 0.0125 --amps 0.001 --spacing 0.1 --thickness 0.1 --diameter 4 --json");
     let core = probe::evaluate(&reading(Some(0.1), Some(4.0))).unwrap();
-    assert!(
-        relative_difference(
-            number(&output, "sheet_resistance_ohm_sq"),
-            core.sheet_resistance_ohm_sq.unwrap()
-        ) < SAME_CODE_OTHER_BUILD
+    assert_same_as_core(
+        &output,
+        "sheet_resistance_ohm_sq",
+        core.sheet_resistance_ohm_sq.unwrap(),
     );
-    assert!(
-        relative_difference(
-            number(&output, "resistivity_ohm_cm"),
-            core.resistivity_ohm_cm
-        ) < SAME_CODE_OTHER_BUILD
-    );
+    assert_same_as_core(&output, "resistivity_ohm_cm", core.resistivity_ohm_cm);
     let corrections = output["corrections"].as_object().unwrap();
     assert_eq!(
         corrections.keys().collect::<Vec<_>>(),
@@ -128,30 +94,8 @@ fn json_has_every_correction_by_name_and_equals_the_core_result() {
 
 #[test]
 fn lengths_with_units_are_read() {
-    let plain = json(&[
-        "probe",
-        "--volts",
-        "0.0125",
-        "--amps",
-        "0.001",
-        "--spacing",
-        "0.1",
-        "--thickness",
-        "0.0525",
-        "--json",
-    ]);
-    let units = json(&[
-        "probe",
-        "--volts",
-        "12.5mV",
-        "--amps",
-        "1 mA",
-        "--spacing",
-        "1mm",
-        "--thickness",
-        "525um",
-        "--json",
-    ]);
+    let plain = json("probe --volts 0.0125 --amps 0.001 --spacing 0.1 --thickness 0.0525 --json");
+    let units = json("probe --volts 12.5mV --amps '1 mA' --spacing 1mm --thickness 525um --json");
     for key in ["sheet_resistance_ohm_sq", "resistivity_ohm_cm"] {
         assert!(
             relative_difference(number(&units, key), number(&plain, key)) < 1e-12,
@@ -162,22 +106,10 @@ fn lengths_with_units_are_read() {
 
 #[test]
 fn temperature_correction_to_23_c() {
-    let output = json(&[
-        "probe",
-        "--volts",
-        "0.0125",
-        "--amps",
-        "0.001",
-        "--spacing",
-        "0.1",
-        "--thickness",
-        "0.0525",
-        "--temperature-c",
-        "25",
-        "--dopant",
-        "B",
-        "--json",
-    ]);
+    let output = json(
+        "probe --volts 0.0125 --amps 0.001 --spacing 0.1 --thickness 0.0525 \
+         --temperature-c 25 --dopant B --json",
+    );
     let mut with_temperature = reading(Some(0.0525), None);
     with_temperature.temperature = Some(ReadingTemperature {
         temperature_c: 25.0,
@@ -186,12 +118,7 @@ fn temperature_correction_to_23_c() {
         mobility: MobilityModel::Masetti,
     });
     let core = probe::evaluate(&with_temperature).unwrap();
-    assert!(
-        relative_difference(
-            number(&output, "resistivity_ohm_cm"),
-            core.resistivity_ohm_cm
-        ) < SAME_CODE_OTHER_BUILD
-    );
+    assert_same_as_core(&output, "resistivity_ohm_cm", core.resistivity_ohm_cm);
     let factor = number(&output["corrections"]["temperature"], "factor");
     // Common practice, no source: silicon near room temperature is lattice-scattering
     // limited, so a reading 2 K above 23 C is a little high and is corrected downwards.
@@ -209,24 +136,10 @@ fn temperature_correction_to_23_c() {
 
 #[test]
 fn uncertainties_give_a_density_interval() {
-    let output = json(&[
-        "probe",
-        "--volts",
-        "0.0125",
-        "--amps",
-        "0.001",
-        "--spacing",
-        "0.1",
-        "--thickness",
-        "0.0525",
-        "--dopant",
-        "P",
-        "--volts-uncertainty",
-        "1%",
-        "--thickness-uncertainty",
-        "10um",
-        "--json",
-    ]);
+    let output = json(
+        "probe --volts 0.0125 --amps 0.001 --spacing 0.1 --thickness 0.0525 --dopant P \
+         --volts-uncertainty 1% --thickness-uncertainty 10um --json",
+    );
     let interval = &output["interval"];
     assert_eq!(interval["quantity"], "density_cm3");
     let sources: Vec<&str> = interval["contributions"]
@@ -251,19 +164,8 @@ fn uncertainties_give_a_density_interval() {
 
 #[test]
 fn table_shows_the_results_and_the_caution() {
-    let text = success(&[
-        "probe",
-        "--volts",
-        "0.0125",
-        "--amps",
-        "0.001",
-        "--spacing",
-        "0.1",
-        "--thickness",
-        "0.0525",
-        "--diameter",
-        "15",
-    ]);
+    let text =
+        success("probe --volts 0.0125 --amps 0.001 --spacing 0.1 --thickness 0.0525 --diameter 15");
     let core = probe::evaluate(&reading(Some(0.0525), Some(15.0))).unwrap();
     assert!(text.starts_with("Four-point probe: V 0.01250 V, I 0.001000 A, spacing 0.1000 cm, thickness 0.05250 cm, diameter 15.00 cm\n"));
     let sheet = text
@@ -300,53 +202,19 @@ fn table_shows_the_results_and_the_caution() {
 #[test]
 fn refused_readings() {
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0",
-            "--spacing",
-            "0.1",
-        ],
+        "probe --volts 0.01 --amps 0 --spacing 0.1",
         "--amps: \"0\" is not allowed; give a current > 0 A",
     );
     refused(
-        &[
-            "probe",
-            "--volts",
-            "abc",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-        ],
+        "probe --volts abc --amps 0.001 --spacing 0.1",
         "--volts: \"abc\" is not a number; give a voltage such as 0.0125 or 12.5 mV; units: V (default), mV, uV, µV",
     );
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "-1",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing -1",
         "--spacing: \"-1\" is not allowed; give a length > 0 cm",
     );
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--thickness",
-            "3in",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --thickness 3in",
         "--thickness: \"3in\": \"in\" is not an accepted length unit; allowed: cm (default), mm, um, µm, nm, m",
     );
 }
@@ -355,48 +223,16 @@ fn refused_readings() {
 fn refused_geometries() {
     // Source: Smits 1958: the outer probes must lie on the slice, d/s > sqrt 3.
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--thickness",
-            "0.05",
-            "--diameter",
-            "0.15",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --thickness 0.05 --diameter 0.15",
         "--diameter: 0.15 is too small for probe spacing 0.1 cm; the diameter correction needs diameter > sqrt(3) x spacing = 0.1732 cm",
     );
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--diameter",
-            "15",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --diameter 15",
         "--diameter: 15 given without thickness_cm; the diameter correction (Smits 1958) is for a thin wafer, give its thickness",
     );
     // A thickness-to-spacing ratio beyond f64 is one the thickness correction cannot handle.
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "1e-10",
-            "--thickness",
-            "1e300",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 1e-10 --thickness 1e300",
         "--thickness: thickness_cm / spacing_cm: inf is not allowed; give a finite value > 0",
     );
 }
@@ -404,100 +240,31 @@ fn refused_geometries() {
 #[test]
 fn refused_temperatures_dopants_and_models() {
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--temperature-c",
-            "-300",
-            "--dopant",
-            "B",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --temperature-c -300 --dopant B",
         "--temperature-c: \"-300\" is -26.85 K, not allowed; give a temperature > 0 K, e.g. 300, 300K or 27C",
     );
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--temperature-c",
-            "400",
-            "--dopant",
-            "B",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --temperature-c 400 --dopant B",
         "--temperature-c: 400 C is outside the range of every model for B in si that could be chosen by default; \
          name one with --model (thurber, masetti, arora, lattice)",
     );
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--dopant",
-            "B",
-            "--model",
-            "thurber",
-            "--temperature-c",
-            "30",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --dopant B --model thurber \
+         --temperature-c 30",
         "--temperature-c: 303.15 is not allowed for the empirical relation, which holds at 23 C; give 295.15 to 297.15 K, \
          correct the reading to 23 C first, or choose a physics model",
     );
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--dopant",
-            "Xx",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --dopant Xx",
         "--dopant: \"Xx\" is not a known dopant of si; choose one of P, As, Sb, B, Al, Ga, In",
     );
     refused(
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--dopant",
-            "B",
-            "--volts-uncertainty",
-            "0.02",
-        ],
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --dopant B --volts-uncertainty 0.02",
         "--volts-uncertainty: 0.02000 V reaches the value itself (0.01000 V); give an uncertainty smaller than the value",
     );
     // Outside the empirical relation's range: stated 1e-4 to 1e4 ohm cm for boron (ASTM F723).
     refused(
-        &[
-            "probe",
-            "--volts",
-            "1e-9",
-            "--amps",
-            "1",
-            "--spacing",
-            "0.1",
-            "--dopant",
-            "B",
-        ],
+        "probe --volts 1e-9 --amps 1 --spacing 0.1 --dopant B",
         "--volts: the reading's resistivity cannot be converted: resistivity_ohm_cm: 6.283185307179587e-10 is outside \
          the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
     );
@@ -505,34 +272,7 @@ fn refused_temperatures_dopants_and_models() {
 
 #[test]
 fn options_that_need_a_dopant_are_usage_errors() {
-    for args in [
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--temperature-c",
-            "25",
-        ][..],
-        &[
-            "probe",
-            "--volts",
-            "0.01",
-            "--amps",
-            "0.001",
-            "--spacing",
-            "0.1",
-            "--volts-uncertainty",
-            "1%",
-        ],
-        &["probe", "--volts", "0.01", "--amps", "0.001"],
-    ] {
-        let run = bandgauge(args);
-        assert_eq!(run.code, 2, "{args:?}");
-        assert!(run.stdout.is_empty());
-        assert!(run.stderr.starts_with("error: "), "{}", run.stderr);
-    }
+    usage_error("probe --volts 0.01 --amps 0.001 --spacing 0.1 --temperature-c 25");
+    usage_error("probe --volts 0.01 --amps 0.001 --spacing 0.1 --volts-uncertainty 1%");
+    usage_error("probe --volts 0.01 --amps 0.001");
 }

@@ -1,6 +1,45 @@
-//! Ionization of dopant levels: occupancy with a ground-state degeneracy factor, in stable forms.
+//! Ionization of dopant levels: occupancy with a ground-state degeneracy factor, and how the level depends on dopant density.
+//!
+//! # Public API
+//! - [`donor_ionized_fraction`], [`acceptor_ionized_fraction`]: occupancy of one level.
+//! - [`IonizationModel`]: how a species' level depends on the density of its kind, with stable
+//!   ids `altermatt`, `pearson-bardeen`, `dilute` ([`IonizationModel::id`],
+//!   [`IonizationModel::from_id`]).
+//! - [`AltermattParameters`] (carried by a [`Dopant`]) with the published silicon sets
+//!   [`ALTERMATT_SI_PHOSPHORUS`], [`ALTERMATT_SI_ARSENIC`], [`ALTERMATT_SI_BORON`];
+//!   [`PearsonBardeenParameters`] (carried by a [`Material`]) with [`PEARSON_BARDEEN_SILICON`];
+//!   [`pearson_bardeen_level_ev`].
+//! - [`effective_level`]: the level, localized fraction and model a solve uses for one species.
+//! - [`IonizationError`].
+//!
+//! # Which model applies to which species
+//! The selected model is used for every species it has parameters for; any other species uses
+//! the next model in the order `altermatt` -> `pearson-bardeen` -> `dilute`, and every result
+//! names the model actually used per species. The parameters travel with the data, so a
+//! material read from a file keeps them: `altermatt` needs the dopant's
+//! [`Dopant::altermatt`] set (built in for P, As and B in silicon); `pearson-bardeen` needs
+//! the host's [`Material::pearson_bardeen`] alpha values (built in for silicon, where they
+//! apply to any dopant, user-defined ones included); `dilute` needs nothing. So the default
+//! (`altermatt`) gives Altermatt for Si:P, Si:As, Si:B, Pearson-Bardeen for Sb, Al, Ga, In and
+//! user-defined dopants in silicon, and the constant (dilute) level in every other built-in
+//! material.
+//!
+//! # Density used
+//! N in E(N) and b(N) is the total density of all dopants of the same kind as the species (all
+//! donors for a donor, all acceptors for an acceptor), not the total doping and not only the
+//! species itself. The impurity band and the Mott transition come from the overlap of the bound
+//! states of like dopants, whatever their element; dopants of the other kind bind no carrier of
+//! the same sign and do not join that band. For singly doped material, the case the published
+//! parameters were fitted to, the three choices coincide; summing over the kind also makes a
+//! species split into two entries give the same answer.
+
+use std::borrow::Cow;
+use std::fmt;
+
+use serde::{Deserialize, Serialize};
 
 use crate::constants::thermal_energy_ev;
+use crate::materials::{Dopant, DopantKind, Material};
 
 /// Fraction of donors that are ionized (positive).
 ///
@@ -10,8 +49,9 @@ use crate::constants::thermal_energy_ev;
 /// the correct limit 0, never NaN.
 ///
 /// # Validity
-/// A single level per species, non-interacting dopants (no impurity band, no
-/// concentration-dependent lowering of the level).
+/// A single level per species. How the level and the part of the species that
+/// follows it depend on dopant density is the business of [`effective_level`]; this
+/// function is the occupancy of whatever level it is given.
 ///
 /// # References
 /// Sze, Physics of Semiconductor Devices, 2nd ed. (1981), ch. 1 (from memory);
@@ -75,6 +115,368 @@ pub(crate) fn logistic_complement(x: f64) -> f64 {
     1.0 / (1.0 + x.exp())
 }
 
+/// How a dopant level depends on the density of dopants of its kind.
+///
+/// See the module documentation for which species each model covers and the fallback order.
+#[non_exhaustive]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum IonizationModel {
+    /// Altermatt et al. (2006): the level moves towards its band edge, E(N) = E0/(1 + (N/N_ref)^c),
+    /// and only a fraction b(N) = 1/(1 + (N/N_b)^d) of the dopants stays localized and follows
+    /// the occupancy of that level; the rest is always ionized. Silicon P, As, B.
+    #[default]
+    Altermatt,
+    /// Pearson & Bardeen (1949): E(N) = E0 - alpha N^(1/3); where that is <= 0 the level has
+    /// merged with the band and the species is taken as fully ionized. Any dopant in silicon.
+    PearsonBardeen,
+    /// A constant level at the dopant's own (dilute-limit) ionization energy.
+    Dilute,
+}
+
+impl IonizationModel {
+    /// Every model, in fallback order.
+    pub const ALL: [IonizationModel; 3] = [
+        IonizationModel::Altermatt,
+        IonizationModel::PearsonBardeen,
+        IonizationModel::Dilute,
+    ];
+
+    /// Stable identifier for command lines, files and the UI.
+    pub fn id(self) -> &'static str {
+        match self {
+            IonizationModel::Altermatt => "altermatt",
+            IonizationModel::PearsonBardeen => "pearson-bardeen",
+            IonizationModel::Dilute => "dilute",
+        }
+    }
+
+    /// The model with identifier `id` (case-insensitive, surrounding spaces ignored).
+    ///
+    /// # Errors
+    /// [`IonizationError::UnknownModel`] for any other text.
+    pub fn from_id(id: &str) -> Result<IonizationModel, IonizationError> {
+        IonizationModel::ALL
+            .into_iter()
+            .find(|m| m.id().eq_ignore_ascii_case(id.trim()))
+            .ok_or_else(|| IonizationError::UnknownModel { id: id.to_string() })
+    }
+
+    /// Human-readable name.
+    pub fn name(self) -> &'static str {
+        match self {
+            IonizationModel::Altermatt => "Altermatt et al. (2006) incomplete ionization",
+            IonizationModel::PearsonBardeen => "Pearson-Bardeen level lowering",
+            IonizationModel::Dilute => "dilute (constant) level",
+        }
+    }
+
+    /// Short citation of the primary source.
+    pub fn reference(self) -> &'static str {
+        match self {
+            IonizationModel::Altermatt => ALTERMATT_SOURCE,
+            IonizationModel::PearsonBardeen => PEARSON_BARDEEN_SOURCE,
+            IonizationModel::Dilute => {
+                "each dopant's own ionization energy (see the dopant's source)"
+            }
+        }
+    }
+}
+
+impl fmt::Display for IonizationModel {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.id())
+    }
+}
+
+/// Why an ionization-model request was refused.
+#[non_exhaustive]
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum IonizationError {
+    /// No ionization model has this id.
+    UnknownModel {
+        /// The id given.
+        id: String,
+    },
+}
+
+impl fmt::Display for IonizationError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            IonizationError::UnknownModel { id } => write!(
+                f,
+                "ionization model: '{id}' is not known; use one of {}",
+                IonizationModel::ALL.map(IonizationModel::id).join(", ")
+            ),
+        }
+    }
+}
+
+impl std::error::Error for IonizationError {}
+
+/// Citation of the Altermatt model and its parameter table.
+pub const ALTERMATT_SOURCE: &str = "Altermatt2006: Altermatt, Schenk, Schmithuesen, Heiser, J. Appl. \
+     Phys. 100, 113714 (2006) (Si:P) and 113715 (2006) (Si:As, Si:B), Table 1";
+/// Citation of the Pearson-Bardeen lowering and of the alpha values.
+pub const PEARSON_BARDEEN_SOURCE: &str = "PearsonBardeen1949: Pearson, Bardeen, Phys. Rev. 75, 865 \
+     (1949); alpha 3.1e-8 eV cm (donors), 3.037e-8 eV cm (acceptors): widely used defaults \
+     (from memory)";
+
+/// One parameter set of the Altermatt et al. (2006) ionization model, carried by the dopant
+/// it belongs to ([`Dopant::altermatt`]).
+///
+/// # Formula
+/// E(N) = E0 / (1 + (N/N_ref)^c) (eV, from the band edge); b(N) = 1 / (1 + (N/N_b)^d), the
+/// fraction of the dopants that stays localized; N in cm^-3.
+///
+/// # References
+/// Altermatt, Schenk, Schmithuesen, Heiser, J. Appl. Phys. 100, 113714 and 113715 (2006),
+/// Table 1 (the values). The way the two functions enter the ionized density (the localized
+/// fraction b follows Fermi-Dirac occupancy of the level E(N) with the usual g, the rest
+/// 1 - b counts as ionized at every temperature) is this module's reading of their
+/// simplified model for device simulation, from memory; it reproduces their statement that
+/// incomplete ionization at 300 K peaks near the Mott transition (about a quarter of Si:P
+/// neutral near 2e18 cm^-3).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct AltermattParameters {
+    /// E0, the dilute-limit level, eV (the set's own, which may differ from the dopant's
+    /// `ionization_energy_ev`).
+    pub e0_ev: f64,
+    /// N_ref, cm^-3.
+    pub n_ref_cm3: f64,
+    /// c, dimensionless.
+    pub c: f64,
+    /// N_b, cm^-3.
+    pub n_b_cm3: f64,
+    /// d, dimensionless.
+    pub d: f64,
+    /// Where the set comes from.
+    pub source: Cow<'static, str>,
+}
+
+// Source: Altermatt et al., J. Appl. Phys. 100, 113715 (2006), Table 1 (P from part I, 113714):
+// E0, N_ref, c, N_b, d.
+/// Phosphorus in silicon: 45.5 meV, 3e18 cm^-3, 2, 6e18 cm^-3, 2.3.
+pub const ALTERMATT_SI_PHOSPHORUS: AltermattParameters = AltermattParameters {
+    e0_ev: 0.0455,
+    n_ref_cm3: 3e18,
+    c: 2.0,
+    n_b_cm3: 6e18,
+    d: 2.3,
+    source: Cow::Borrowed(
+        "Altermatt2006: Altermatt et al., J. Appl. Phys. 100, 113714 and 113715 (2006), \
+         Table 1, Si:P",
+    ),
+};
+/// Arsenic in silicon: 53.7 meV, 4e18 cm^-3, 1.5, 1.4e19 cm^-3, 3.
+pub const ALTERMATT_SI_ARSENIC: AltermattParameters = AltermattParameters {
+    e0_ev: 0.0537,
+    n_ref_cm3: 4e18,
+    c: 1.5,
+    n_b_cm3: 1.4e19,
+    d: 3.0,
+    source: Cow::Borrowed(
+        "Altermatt2006: Altermatt et al., J. Appl. Phys. 100, 113715 (2006), Table 1, Si:As",
+    ),
+};
+/// Boron in silicon: 44.39 meV, 1.7e18 cm^-3, 1.4, 6e18 cm^-3, 2.4.
+pub const ALTERMATT_SI_BORON: AltermattParameters = AltermattParameters {
+    e0_ev: 0.04439,
+    n_ref_cm3: 1.7e18,
+    c: 1.4,
+    n_b_cm3: 6e18,
+    d: 2.4,
+    source: Cow::Borrowed(
+        "Altermatt2006: Altermatt et al., J. Appl. Phys. 100, 113715 (2006), Table 1, Si:B",
+    ),
+};
+
+impl AltermattParameters {
+    /// E(N) = E0 / (1 + (N/N_ref)^c), eV; E0 at N = 0, > 0 for every finite N.
+    ///
+    /// # Validity
+    /// Fitted near room temperature (see [`effective_level`]).
+    pub fn level_ev(&self, density_cm3: f64) -> f64 {
+        self.e0_ev / (1.0 + (density_cm3 / self.n_ref_cm3).powf(self.c))
+    }
+
+    /// b(N) = 1 / (1 + (N/N_b)^d): the localized fraction, 1 at N = 0, falling to 0.
+    pub fn localized_fraction(&self, density_cm3: f64) -> f64 {
+        1.0 / (1.0 + (density_cm3 / self.n_b_cm3).powf(self.d))
+    }
+
+    /// 1 - b(N) = x/(1 + x), x = (N/N_b)^d, without the cancellation of 1 - b at low N.
+    pub fn delocalized_fraction(&self, density_cm3: f64) -> f64 {
+        fractions((density_cm3 / self.n_b_cm3).powf(self.d)).1
+    }
+
+    /// The first field outside its allowed range: (name, value, what is allowed).
+    pub fn invalid_field(&self) -> Option<(&'static str, f64, &'static str)> {
+        // Plain tests in field order (every solve validates its dopants).
+        let positive = |v: f64| v.is_finite() && v > 0.0;
+        if !(self.e0_ev.is_finite() && self.e0_ev >= 0.0) {
+            Some(("e0_ev", self.e0_ev, "a finite value >= 0 eV"))
+        } else if !positive(self.n_ref_cm3) {
+            Some(("n_ref_cm3", self.n_ref_cm3, "a finite value > 0 cm^-3"))
+        } else if !positive(self.c) {
+            Some(("c", self.c, "a finite value > 0"))
+        } else if !positive(self.n_b_cm3) {
+            Some(("n_b_cm3", self.n_b_cm3, "a finite value > 0 cm^-3"))
+        } else if !positive(self.d) {
+            Some(("d", self.d, "a finite value > 0"))
+        } else {
+            None
+        }
+    }
+}
+
+/// (b, 1 - b) from x = (N/N_b)^d: 1/(1 + x) and x/(1 + x), exact to rounding for any x >= 0.
+fn fractions(x: f64) -> (f64, f64) {
+    if x.is_infinite() {
+        (0.0, 1.0)
+    } else {
+        let inverse = 1.0 / (1.0 + x);
+        (inverse, x * inverse)
+    }
+}
+
+/// The Pearson-Bardeen alpha values of a host material ([`Material::pearson_bardeen`]).
+///
+/// # Formula
+/// E(N) = E0 - alpha N^(1/3), alpha in eV cm, N in cm^-3 ([`pearson_bardeen_level_ev`]).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct PearsonBardeenParameters {
+    /// alpha for donors, eV cm.
+    pub donor_alpha_ev_cm: f64,
+    /// alpha for acceptors, eV cm.
+    pub acceptor_alpha_ev_cm: f64,
+    /// Where the values come from.
+    pub source: Cow<'static, str>,
+}
+
+/// Silicon: alpha 3.1e-8 eV cm for donors, 3.037e-8 eV cm for acceptors (widely used
+/// defaults, from memory; the form is Pearson & Bardeen's, Phys. Rev. 75, 865 (1949)).
+pub const PEARSON_BARDEEN_SILICON: PearsonBardeenParameters = PearsonBardeenParameters {
+    donor_alpha_ev_cm: 3.1e-8,
+    acceptor_alpha_ev_cm: 3.037e-8,
+    source: Cow::Borrowed(PEARSON_BARDEEN_SOURCE),
+};
+
+impl PearsonBardeenParameters {
+    /// alpha for `kind`, eV cm.
+    pub fn alpha_ev_cm(&self, kind: DopantKind) -> f64 {
+        match kind {
+            DopantKind::Donor => self.donor_alpha_ev_cm,
+            DopantKind::Acceptor => self.acceptor_alpha_ev_cm,
+        }
+    }
+
+    /// The first field outside its allowed range: (name, value, what is allowed).
+    pub fn invalid_field(&self) -> Option<(&'static str, f64, &'static str)> {
+        [
+            ("donor_alpha_ev_cm", self.donor_alpha_ev_cm),
+            ("acceptor_alpha_ev_cm", self.acceptor_alpha_ev_cm),
+        ]
+        .into_iter()
+        .find(|&(_, v)| !(v.is_finite() && v >= 0.0))
+        .map(|(name, v)| (name, v, "a finite value >= 0 eV cm"))
+    }
+}
+
+/// The Pearson-Bardeen level E0 - alpha N^(1/3), eV; it may be zero or negative.
+///
+/// # Formula
+/// E(N) = E0 - alpha N^(1/3), E0 in eV, alpha in eV cm, N in cm^-3.
+///
+/// # Validity
+/// A value <= 0 means the level has merged with the band: [`effective_level`] then counts the
+/// species as fully ionized (localized fraction 0) and reports the level as 0. This is a step,
+/// not a smooth limit: just below the merging density the occupancy of a level at the band edge
+/// still leaves a part of the dopants neutral.
+///
+/// # References
+/// Pearson, Bardeen, Phys. Rev. 75, 865 (1949); alpha values: widely used defaults (from memory).
+pub fn pearson_bardeen_level_ev(e0_ev: f64, alpha_ev_cm: f64, density_cm3: f64) -> f64 {
+    e0_ev - alpha_ev_cm * density_cm3.cbrt()
+}
+
+/// The level a solve uses for one species.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct EffectiveLevel {
+    /// The model actually used for this species.
+    pub model: IonizationModel,
+    /// Distance of the level from its band edge, eV (0 when merged with the band).
+    pub level_from_band_edge_ev: f64,
+    /// Fraction of the dopants that follow the occupancy of the level (b(N) for Altermatt, 0 for
+    /// a Pearson-Bardeen level merged with the band, 1 otherwise); the rest is always ionized.
+    pub localized_fraction: f64,
+    /// 1 - localized_fraction, computed without cancellation.
+    pub delocalized_fraction: f64,
+    /// True when a Pearson-Bardeen level has merged with the band.
+    pub merged_with_band: bool,
+}
+
+/// The level of `dopant` in `material` at a density `kind_density_cm3` of its kind, with
+/// `requested` as the preferred model.
+///
+/// # Formula
+/// Altermatt: E(N) and b(N) of the dopant's [`AltermattParameters`] (their own E0, not the
+/// dopant's dilute level); Pearson-Bardeen: [`pearson_bardeen_level_ev`] with the dopant's
+/// dilute level as E0 and the material's alpha; dilute: the dopant's level, b = 1. The ionized
+/// density is then N [(1 - b) + b / (1 + g exp(+-(E_F - E_level)/kT))].
+///
+/// # Validity
+/// Altermatt et al. fitted their sets to silicon near room temperature. At cryogenic
+/// temperatures the always-ionized part (1 - b) N (4e9 cm^-3 of 1e16 cm^-3 phosphorus) sets a
+/// floor under the free-carrier density that lightly doped silicon does not show; choose
+/// `dilute` (or `pearson-bardeen`) for freeze-out studies of light doping.
+///
+/// # References
+/// [`ALTERMATT_SOURCE`], [`PEARSON_BARDEEN_SOURCE`].
+pub fn effective_level(
+    material: &Material,
+    dopant: &Dopant,
+    kind_density_cm3: f64,
+    requested: IonizationModel,
+) -> EffectiveLevel {
+    let n = kind_density_cm3;
+    if requested == IonizationModel::Altermatt
+        && let Some(p) = &dopant.altermatt
+    {
+        // One power for both fractions (a solve prepares every species, so this is on the
+        // hot path).
+        let (localized, delocalized) = fractions((n / p.n_b_cm3).powf(p.d));
+        return EffectiveLevel {
+            model: IonizationModel::Altermatt,
+            level_from_band_edge_ev: p.level_ev(n),
+            localized_fraction: localized,
+            delocalized_fraction: delocalized,
+            merged_with_band: false,
+        };
+    }
+    if requested != IonizationModel::Dilute
+        && let Some(pb) = &material.pearson_bardeen
+    {
+        let e =
+            pearson_bardeen_level_ev(dopant.ionization_energy_ev, pb.alpha_ev_cm(dopant.kind), n);
+        let merged = e <= 0.0;
+        return EffectiveLevel {
+            model: IonizationModel::PearsonBardeen,
+            level_from_band_edge_ev: if merged { 0.0 } else { e },
+            localized_fraction: if merged { 0.0 } else { 1.0 },
+            delocalized_fraction: if merged { 1.0 } else { 0.0 },
+            merged_with_band: merged,
+        };
+    }
+    EffectiveLevel {
+        model: IonizationModel::Dilute,
+        level_from_band_edge_ev: dopant.ionization_energy_ev,
+        localized_fraction: 1.0,
+        delocalized_fraction: 0.0,
+        merged_with_band: false,
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -104,6 +506,61 @@ mod tests {
         assert!(s >= 0.0 && (0.0..1e-300).contains(&l));
         assert_eq!(logistic_complement(1000.0), 0.0);
         assert_eq!(logistic_complement(-1000.0), 1.0);
+    }
+
+    #[test]
+    fn each_model_falls_back_in_order() {
+        use crate::materials::{self, DopantKind};
+        let si = materials::silicon();
+        let ge = materials::germanium();
+        let p = si.dopant("P").unwrap();
+        let level = |m: &Material, d: &Dopant, model| effective_level(m, d, 1e18, model);
+        let a = level(&si, &p, IonizationModel::Altermatt);
+        assert_eq!(a.model, IonizationModel::Altermatt);
+        // Source: Pearson & Bardeen 1949 form with the dopant's own 45 meV (Sze 1981):
+        // 45 meV - 3.1e-8 eV cm * 1e6 cm^-1 = 14 meV (formula evaluated).
+        let pb = level(&si, &p, IonizationModel::PearsonBardeen);
+        assert_eq!(pb.model, IonizationModel::PearsonBardeen);
+        assert!((pb.level_from_band_edge_ev - 0.014).abs() < 1e-15);
+        let dilute = level(&si, &p, IonizationModel::Dilute);
+        assert_eq!(dilute.level_from_band_edge_ev, 0.045);
+        // No Altermatt set: Sb in silicon, or a user-defined dopant; no host alpha: germanium.
+        let sb = si.dopant("Sb").unwrap();
+        let sb_level = level(&si, &sb, IonizationModel::Altermatt);
+        assert_eq!(sb_level.model, IonizationModel::PearsonBardeen);
+        let user = Dopant::new("X", DopantKind::Acceptor, 0.045, 4.0, "demo").unwrap();
+        let user_level = level(&si, &user, IonizationModel::Altermatt);
+        assert_eq!(user_level.model, IonizationModel::PearsonBardeen);
+        let ge_p = ge.dopant("P").unwrap();
+        for model in IonizationModel::ALL {
+            assert_eq!(level(&ge, &ge_p, model).model, IonizationModel::Dilute);
+        }
+        // Merged: E0 - alpha N^(1/3) <= 0 means fully ionized, level reported as 0.
+        let merged = effective_level(&si, &sb, 1e19, IonizationModel::PearsonBardeen);
+        assert!(merged.merged_with_band);
+        assert_eq!(
+            (
+                merged.level_from_band_edge_ev,
+                merged.localized_fraction,
+                merged.delocalized_fraction
+            ),
+            (0.0, 0.0, 1.0)
+        );
+        assert!(pearson_bardeen_level_ev(0.039, 3.1e-8, 1e19) < 0.0);
+    }
+
+    #[test]
+    fn bad_parameter_sets_are_named() {
+        let mut p = ALTERMATT_SI_BORON;
+        assert_eq!(p.invalid_field(), None);
+        p.d = f64::NAN;
+        assert_eq!(p.invalid_field().map(|f| f.0), Some("d"));
+        let mut pb = PEARSON_BARDEEN_SILICON;
+        pb.acceptor_alpha_ev_cm = -1.0;
+        assert_eq!(
+            pb.invalid_field(),
+            Some(("acceptor_alpha_ev_cm", -1.0, "a finite value >= 0 eV cm"))
+        );
     }
 
     #[test]

@@ -16,6 +16,7 @@ use crate::bandgap::Varshni;
 use crate::bgn::SlotboomParams;
 use crate::dos::PowerLaw;
 use crate::intrinsic::{self, IntrinsicFit};
+use crate::ionization::{self, AltermattParameters, PearsonBardeenParameters};
 
 /// Donor or acceptor.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
@@ -51,6 +52,11 @@ pub struct Dopant {
     pub degeneracy: f64,
     /// Where the ionization energy and degeneracy come from.
     pub source: String,
+    /// The Altermatt et al. (2006) set of this dopant in this host, if published (silicon P,
+    /// As, B): the density-dependent level and localized fraction of
+    /// [`crate::ionization::IonizationModel::Altermatt`].
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub altermatt: Option<AltermattParameters>,
 }
 
 impl Dopant {
@@ -73,6 +79,7 @@ impl Dopant {
             ionization_energy_ev,
             degeneracy,
             source: source.to_owned(),
+            altermatt: None,
         };
         d.validate()?;
         Ok(d)
@@ -101,6 +108,15 @@ impl Dopant {
                 field: field("degeneracy"),
                 value: self.degeneracy,
                 allowed: "a finite value > 0",
+            });
+        }
+        if let Some((name, value, allowed)) =
+            self.altermatt.as_ref().and_then(|p| p.invalid_field())
+        {
+            return Err(MaterialError::InvalidParameter {
+                field: field(&format!("altermatt.{name}")),
+                value,
+                allowed,
             });
         }
         Ok(())
@@ -152,6 +168,10 @@ pub struct Material {
     pub dopants: Vec<Dopant>,
     /// Sources of the parameter groups above.
     pub sources: MaterialSources,
+    /// The Pearson-Bardeen alpha values of this host, if any (silicon): the density-dependent
+    /// level of [`crate::ionization::IonizationModel::PearsonBardeen`].
+    #[serde(default)]
+    pub pearson_bardeen: Option<PearsonBardeenParameters>,
     /// A published direct fit of the intrinsic density, if one exists
     /// (silicon: Misiakos & Tsamakis 1993).
     #[serde(default)]
@@ -279,6 +299,11 @@ impl Material {
                 self.relative_permittivity,
                 "a finite value > 0",
             );
+        }
+        if let Some(p) = &self.pearson_bardeen
+            && let Some((f, v, a)) = p.invalid_field()
+        {
+            return bad(format!("material {}: pearson_bardeen.{f}", self.id), v, a);
         }
         if let Some(fit) = &self.intrinsic_fit
             && let Some((f, v, a)) = fit.invalid_field()
@@ -447,6 +472,15 @@ fn dopant(symbol: &str, kind: DopantKind, ionization_mev: f64, source: &str) -> 
         ionization_energy_ev: ionization_mev * 1e-3,
         degeneracy,
         source: source.into(),
+        altermatt: None,
+    }
+}
+
+/// `d` with its Altermatt et al. (2006) set.
+fn with_altermatt(d: Dopant, set: AltermattParameters) -> Dopant {
+    Dopant {
+        altermatt: Some(set),
+        ..d
     }
 }
 
@@ -480,10 +514,21 @@ pub fn silicon() -> Material {
         dopants: vec![
             // Source: Sze 1981, ch. 1, measured ionization energies in Si:
             // P 45, As 54, Sb 39 meV (donors); B 45, Al 67, Ga 72, In 160 meV (acceptors).
-            dopant("P", Donor, 45.0, SZE),
-            dopant("As", Donor, 54.0, SZE),
+            // Source: Altermatt et al., J. Appl. Phys. 100, 113714 and 113715 (2006), Table 1:
+            // the density-dependent sets of P, As and B (see crate::ionization).
+            with_altermatt(
+                dopant("P", Donor, 45.0, SZE),
+                ionization::ALTERMATT_SI_PHOSPHORUS,
+            ),
+            with_altermatt(
+                dopant("As", Donor, 54.0, SZE),
+                ionization::ALTERMATT_SI_ARSENIC,
+            ),
             dopant("Sb", Donor, 39.0, SZE),
-            dopant("B", Acceptor, 45.0, SZE),
+            with_altermatt(
+                dopant("B", Acceptor, 45.0, SZE),
+                ionization::ALTERMATT_SI_BORON,
+            ),
             dopant("Al", Acceptor, 67.0, SZE),
             dopant("Ga", Acceptor, 72.0, SZE),
             dopant("In", Acceptor, 160.0, SZE),
@@ -497,6 +542,9 @@ pub fn silicon() -> Material {
                            Appendix G (from memory)"
                 .into(),
         },
+        // Source: Pearson & Bardeen, Phys. Rev. 75, 865 (1949) form; alpha 3.1e-8 eV cm
+        // (donors), 3.037e-8 eV cm (acceptors): widely used defaults (from memory).
+        pearson_bardeen: Some(ionization::PEARSON_BARDEEN_SILICON),
         intrinsic_fit: Some(intrinsic::misiakos_tsamakis_1993()),
         band_gap_narrowing: Some(crate::bgn::slotboom_de_graaff_1977()),
     }
@@ -549,6 +597,7 @@ pub fn germanium() -> Material {
                 .into(),
             permittivity: "Sze1981: Appendix G (from memory)".into(),
         },
+        pearson_bardeen: None,
         intrinsic_fit: None,
         band_gap_narrowing: None,
     }
@@ -600,6 +649,7 @@ pub fn gallium_arsenide() -> Material {
                 .into(),
             permittivity: "Sze1981: Appendix G (from memory)".into(),
         },
+        pearson_bardeen: None,
         intrinsic_fit: None,
         band_gap_narrowing: None,
     }
@@ -649,6 +699,7 @@ pub fn gallium_nitride() -> Material {
                 .into(),
             permittivity: "Levinshtein2001 (from memory)".into(),
         },
+        pearson_bardeen: None,
         intrinsic_fit: None,
         band_gap_narrowing: None,
     }

@@ -3,8 +3,22 @@
 //! # Equation
 //! n + sum N_A- = p + sum N_D+ with
 //! n = Nc F_1/2((E_F - E_C)/kT), p = Nv F_1/2((E_V - E_F)/kT),
-//! N_D+ = N_D / (1 + g_D exp((E_F - E_D)/kT)), N_A- = N_A / (1 + g_A exp((E_A - E_F)/kT)),
+//! N_D+ = N_D [(1 - b_D) + b_D / (1 + g_D exp((E_F - E_D)/kT))],
+//! N_A- = N_A [(1 - b_A) + b_A / (1 + g_A exp((E_A - E_F)/kT))],
 //! for any number of donor and acceptor species, each with its own level and degeneracy.
+//!
+//! # Dopant levels at high density
+//! The level E_C - E_D (E_A - E_V) and the localized fraction b of each species come from the
+//! selected [`IonizationModel`] ([`SolveOptions::ionization_model`]) at the total density of
+//! the species' kind; see [`crate::ionization`]. Default: `altermatt` (Altermatt et al. 2006)
+//! for silicon P, As and B, `pearson-bardeen` for every other dopant in silicon, `dilute` (the
+//! dopant's own constant level, b = 1) in every other material; the result names the model
+//! used per species ([`SpeciesState::level_model`]) and in `models`. Why: with constant levels
+//! heavily doped silicon comes out mostly neutral at 300 K (1e20 cm^-3 P only 13 % ionized),
+//! whereas measured silicon is metallic there (Mott transition near 4e18 cm^-3 P); Altermatt
+//! et al. fitted their model to silicon data, and Pearson-Bardeen is the standard level
+//! lowering where no such fit exists. Both levels are independent of temperature, so a
+//! temperature sweep prepares them once.
 //!
 //! # Method
 //! The unknown is u = (E_F - E_V)/kT. The solver compares logarithms,
@@ -33,8 +47,10 @@ use crate::constants::thermal_energy_ev;
 use crate::dos::REFERENCE_TEMPERATURE_K;
 use crate::fermi_dirac as fd;
 use crate::intrinsic::{self, IntrinsicModel};
-use crate::ionization::{logistic_complement, softplus_and_logistic};
-use crate::materials::{DopantDensity, DopantKind, Material, MaterialError};
+use crate::ionization::{
+    self, IonizationModel, effective_level, logistic_complement, softplus_and_logistic,
+};
+use crate::materials::{Dopant, DopantDensity, DopantKind, Material, MaterialError};
 
 /// Largest dopant density accepted, cm^-3: above the atomic density of any
 /// solid (silicon has 5.0e22 atoms per cm^3), so nothing physical is refused.
@@ -48,6 +64,10 @@ pub struct SolveOptions {
     pub intrinsic_model: IntrinsicModel,
     /// Band-gap narrowing, off (None) by default.
     pub band_gap_narrowing: Option<BgnModel>,
+    /// How dopant levels depend on dopant density (default `altermatt`, with the per-species
+    /// fallback described in [`crate::ionization`]).
+    #[serde(default)]
+    pub ionization_model: IonizationModel,
 }
 
 /// The solved equilibrium state.
@@ -116,8 +136,16 @@ pub struct SpeciesState {
     pub ionized_cm3: f64,
     /// Ionized fraction, 0..1 (defined also for zero density: the occupancy of the level).
     pub ionized_fraction: f64,
-    /// Distance of the level from its band edge, eV (E_C - E_D or E_A - E_V).
+    /// Distance of the level from its band edge, eV (E_C - E_D or E_A - E_V), as used: lowered
+    /// by the density of the species' kind under `altermatt` or `pearson-bardeen`; 0 when a
+    /// Pearson-Bardeen level has merged with the band.
     pub level_from_band_edge_ev: f64,
+    /// The ionization model used for this species (the selected one or its fallback).
+    pub level_model: IonizationModel,
+    /// Fraction of the species that follows the occupancy of its level (b(N) of Altermatt et
+    /// al.; 0 for a Pearson-Bardeen level merged with the band; 1 otherwise); the rest is
+    /// always ionized.
+    pub localized_fraction: f64,
 }
 
 /// Conduction regime.
@@ -126,11 +154,18 @@ pub struct SpeciesState {
 /// - `Intrinsic`: the effective intrinsic density exceeds the net ionized
 ///   doping, ni > |sum N_D+ - sum N_A-| (includes undoped and exactly
 ///   compensated material).
-/// - `FreezeOut`: fewer than 90 % ([`FREEZE_OUT_IONIZED_FRACTION`]) of the
-///   majority dopant kind (the kind with the larger total density) is ionized.
-///   Without a model of level lowering at high density this also flags the
-///   incomplete ionization that heavy doping shows in this model.
+/// - `FreezeOut`: fewer than half ([`FREEZE_OUT_IONIZED_FRACTION`]) of the
+///   majority dopant kind (the kind with the larger total density) is ionized:
+///   most majority dopants hold their carrier.
 /// - `Extrinsic`: otherwise.
+///
+/// The threshold is one half, not "nearly all": measured silicon keeps part of
+/// its dopants neutral at 300 K near the Mott transition (the default Altermatt
+/// model leaves at most about a quarter to a third of P, As or B neutral, near
+/// 2e18-4e18 cm^-3), which is incomplete ionization of doped material, not
+/// freeze-out; each species' `ionized_fraction` shows it. With the `dilute`
+/// model heavy doping does come out frozen out (1e19 cm^-3 P, 38 % ionized at
+/// 300 K), and the regime says so.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Regime {
@@ -153,7 +188,7 @@ impl fmt::Display for Regime {
 }
 
 /// Ionized fraction of the majority dopant below which the regime is freeze-out.
-pub const FREEZE_OUT_IONIZED_FRACTION: f64 = 0.9;
+pub const FREEZE_OUT_IONIZED_FRACTION: f64 = 0.5;
 
 /// Distance from a band edge, in kT, within which the result is called degenerate.
 pub const DEGENERACY_MARGIN_KT: f64 = 3.0;
@@ -343,8 +378,11 @@ pub(crate) fn band_gap_checked(
 /// reported; an empty `doping` gives intrinsic material.
 ///
 /// # Validity
-/// Single-level dopants without interaction (no impurity band, no Mott
-/// transition), parabolic bands (F_1/2), the material's parameter ranges.
+/// Single-level dopants whose level and localized fraction depend on the
+/// density of their kind as the selected [`IonizationModel`] says (no
+/// impurity-band density of states beyond that), parabolic bands (F_1/2), the
+/// material's parameter ranges; see [`crate::ionization::effective_level`] for
+/// the range of the Altermatt fit.
 /// The result is accurate to a relative charge residual below 1e-9 (in
 /// practice about 1e-12) wherever Eg/kT is below about 1e6 (silicon above
 /// 0.02 K); beyond that the rounding of the reduced energies in f64 limits
@@ -352,8 +390,9 @@ pub(crate) fn band_gap_checked(
 ///
 /// # References
 /// Fermi-Dirac statistics and the ionization formula: Sze, Physics of
-/// Semiconductor Devices, 2nd ed. (1981), ch. 1 (from memory); parameter
-/// sources per material in `models`.
+/// Semiconductor Devices, 2nd ed. (1981), ch. 1 (from memory); the level
+/// models: [`crate::ionization`]; parameter sources per material and species
+/// in `models`.
 ///
 /// # Errors
 /// [`CarrierError::InvalidTemperature`], [`CarrierError::InvalidDensity`],
@@ -374,12 +413,15 @@ pub fn solve(
 #[derive(Debug, Clone, Copy)]
 struct Level {
     kind: DopantKind,
-    /// N, cm^-3.
-    density: f64,
-    /// ln N (may be -inf for zero density).
-    ln_density: f64,
+    /// b N, the part that follows the occupancy of the level, cm^-3.
+    localized: f64,
+    /// ln (b N) (-inf when zero).
+    ln_localized: f64,
     ln_degeneracy: f64,
+    /// E(N) from the band edge, eV.
     ionization_energy_ev: f64,
+    /// The level model and fractions, for the result.
+    effective: ionization::EffectiveLevel,
 }
 
 /// Everything that does not depend on temperature, prepared once (a sweep
@@ -391,6 +433,10 @@ pub(crate) struct Problem<'a> {
     levels: Vec<Level>,
     donors_cm3: f64,
     acceptors_cm3: f64,
+    /// Donors counted as always ionized, sum (1 - b) N_D, cm^-3.
+    fixed_donors_cm3: f64,
+    /// Acceptors counted as always ionized, cm^-3.
+    fixed_acceptors_cm3: f64,
     narrowing_ev: f64,
     deepest_level_ev: f64,
     ln_nc_300k: f64,
@@ -459,9 +505,7 @@ impl<'a> Problem<'a> {
         options: &'a SolveOptions,
     ) -> Result<Problem<'a>, CarrierError> {
         material.validate_parameters()?;
-        let mut levels = Vec::with_capacity(doping.len());
         let (mut donors_cm3, mut acceptors_cm3) = (0.0, 0.0);
-        let mut deepest_level_ev: f64 = 0.0;
         for d in doping {
             d.dopant.validate()?;
             let n = d.density_cm3;
@@ -475,13 +519,37 @@ impl<'a> Problem<'a> {
                 DopantKind::Donor => donors_cm3 += n,
                 DopantKind::Acceptor => acceptors_cm3 += n,
             }
-            deepest_level_ev = deepest_level_ev.max(d.dopant.ionization_energy_ev);
+        }
+        let mut levels = Vec::with_capacity(doping.len());
+        let (mut fixed_donors_cm3, mut fixed_acceptors_cm3) = (0.0, 0.0);
+        let mut deepest_level_ev: f64 = 0.0;
+        for d in doping {
+            let kind_density_cm3 = match d.dopant.kind {
+                DopantKind::Donor => donors_cm3,
+                DopantKind::Acceptor => acceptors_cm3,
+            };
+            let effective = effective_level(
+                material,
+                &d.dopant,
+                kind_density_cm3,
+                options.ionization_model,
+            );
+            let n = d.density_cm3;
+            let fixed = n * effective.delocalized_fraction;
+            match d.dopant.kind {
+                DopantKind::Donor => fixed_donors_cm3 += fixed,
+                DopantKind::Acceptor => fixed_acceptors_cm3 += fixed,
+            }
+            let localized = n * effective.localized_fraction;
+            let ionization_energy_ev = effective.level_from_band_edge_ev;
+            deepest_level_ev = deepest_level_ev.max(ionization_energy_ev);
             levels.push(Level {
                 kind: d.dopant.kind,
-                density: n,
-                ln_density: n.ln(),
+                localized,
+                ln_localized: localized.ln(),
                 ln_degeneracy: d.dopant.degeneracy.ln(),
-                ionization_energy_ev: d.dopant.ionization_energy_ev,
+                ionization_energy_ev,
+                effective,
             });
         }
         let narrowing_ev = match &options.band_gap_narrowing {
@@ -522,6 +590,8 @@ impl<'a> Problem<'a> {
             levels,
             donors_cm3,
             acceptors_cm3,
+            fixed_donors_cm3,
+            fixed_acceptors_cm3,
             narrowing_ev,
             deepest_level_ev,
             ln_nc_300k: material.nc.at_300k_cm3.ln(),
@@ -545,8 +615,9 @@ impl<'a> Problem<'a> {
             let culprit = self
                 .doping
                 .iter()
-                .find(|d| d.dopant.ionization_energy_ev >= band_gap_ev)
-                .map(|d| d.dopant.symbol.clone())
+                .zip(&self.levels)
+                .find(|(_, l)| l.ionization_energy_ev >= band_gap_ev)
+                .map(|(d, _)| d.dopant.symbol.clone())
                 .unwrap_or_default();
             return Err(CarrierError::LevelOutsideGap {
                 symbol: culprit,
@@ -604,25 +675,28 @@ impl<'a> Problem<'a> {
         }
         let holes = f.nv * fd::f_half(eta_p);
         let electrons = f.nc * fd::f_half(eta_n);
-        let (mut pos, mut dpos) = (holes, -holes * fd_ratio(eta_p));
-        let (mut neg, mut dneg) = (electrons, electrons * fd_ratio(eta_n));
+        let (mut pos, mut dpos) = (holes + self.fixed_donors_cm3, -holes * fd_ratio(eta_p));
+        let (mut neg, mut dneg) = (
+            electrons + self.fixed_acceptors_cm3,
+            electrons * fd_ratio(eta_n),
+        );
         let inverse_kt = 1.0 / f.kt_ev;
         for l in &self.levels {
-            if l.density == 0.0 {
+            if l.localized == 0.0 {
                 continue;
             }
             let e = l.ionization_energy_ev * inverse_kt;
             match l.kind {
                 DopantKind::Donor => {
                     let x = (l.ln_degeneracy + eta_n + e).exp();
-                    let ionized = l.density / (1.0 + x);
+                    let ionized = l.localized / (1.0 + x);
                     pos += ionized;
                     // d/du of N/(1 + x) = -N x / (1 + x)^2; 1/(1 + 1/x) stays finite for x = inf.
                     dpos -= ionized / (1.0 + 1.0 / x);
                 }
                 DopantKind::Acceptor => {
                     let y = (l.ln_degeneracy + e + eta_p).exp();
-                    let ionized = l.density / (1.0 + y);
+                    let ionized = l.localized / (1.0 + y);
                     neg += ionized;
                     dneg += ionized / (1.0 + 1.0 / y);
                 }
@@ -645,8 +719,16 @@ impl<'a> Problem<'a> {
         let ln_electrons = f.ln_nc + ln_f_half(eta_n);
         let mut pos = LogSum::new(ln_holes, -fd_ratio(eta_p));
         let mut neg = LogSum::new(ln_electrons, fd_ratio(eta_n));
+        // Always-ionized dopants: constant terms (slope 0). Their logarithms are taken here,
+        // not when the problem is prepared: this form is the rare one.
+        if self.fixed_donors_cm3 > 0.0 {
+            pos.add(self.fixed_donors_cm3.ln(), 0.0);
+        }
+        if self.fixed_acceptors_cm3 > 0.0 {
+            neg.add(self.fixed_acceptors_cm3.ln(), 0.0);
+        }
         for l in &self.levels {
-            if l.ln_density == f64::NEG_INFINITY {
+            if l.ln_localized == f64::NEG_INFINITY {
                 continue;
             }
             let e = l.ionization_energy_ev / f.kt_ev;
@@ -654,12 +736,12 @@ impl<'a> Problem<'a> {
                 DopantKind::Donor => {
                     // (E_F - E_D)/kT = u - gap + e
                     let (sp, lg) = softplus_and_logistic(l.ln_degeneracy + eta_n + e);
-                    pos.add(l.ln_density - sp, -lg);
+                    pos.add(l.ln_localized - sp, -lg);
                 }
                 DopantKind::Acceptor => {
                     // (E_A - E_F)/kT = e - u
                     let (sp, lg) = softplus_and_logistic(l.ln_degeneracy + e + eta_p);
-                    neg.add(l.ln_density - sp, lg);
+                    neg.add(l.ln_localized - sp, lg);
                 }
             }
         }
@@ -678,7 +760,9 @@ impl<'a> Problem<'a> {
     /// as the smallest of three limits (each the solution in its own regime,
     /// with the shallowest majority level, K = (N_band / g) exp(-E_level/kT)):
     /// complete ionization with ni, net/2 + sqrt(net^2/4 + ni^2); uncompensated
-    /// freeze-out, sqrt(K net); compensated freeze-out, K net / N_minority.
+    /// freeze-out, sqrt(K net); compensated freeze-out, K net / N_minority;
+    /// but never below the always-ionized majority dopants less every minority
+    /// dopant, which no temperature freezes out.
     fn initial_guess(&self, f: &Frame) -> f64 {
         let u_intrinsic = 0.5 * (f.gap + f.ln_nv - f.ln_nc);
         let net = self.donors_cm3 - self.acceptors_cm3;
@@ -703,7 +787,7 @@ impl<'a> Problem<'a> {
         let shallowest = self
             .levels
             .iter()
-            .filter(|l| l.kind == kind && l.ln_density > f64::NEG_INFINITY)
+            .filter(|l| l.kind == kind && l.ln_localized > f64::NEG_INFINITY)
             .map(|l| l.ionization_energy_ev / f.kt_ev - l.ln_degeneracy)
             .fold(f64::INFINITY, f64::min);
         if shallowest.is_finite() {
@@ -712,6 +796,14 @@ impl<'a> Problem<'a> {
             if minority > 0.0 {
                 ln_majority = ln_majority.min(ln_k + ln_net - minority.ln());
             }
+        }
+        let fixed_majority = if net > 0.0 {
+            self.fixed_donors_cm3 - minority
+        } else {
+            self.fixed_acceptors_cm3 - minority
+        };
+        if fixed_majority > 0.0 {
+            ln_majority = ln_majority.max(fixed_majority.ln());
         }
         if net > 0.0 {
             f.gap + ln_majority - f.ln_nc
@@ -818,7 +910,11 @@ impl<'a> Problem<'a> {
                 DopantKind::Donor => l.ln_degeneracy + eta_n + e_level,
                 DopantKind::Acceptor => l.ln_degeneracy + e_level + eta_p,
             };
-            let fraction = logistic_complement(z);
+            let occupancy = logistic_complement(z);
+            // b + (1 - b) may round to 1 + 1 ulp: the min keeps the fraction a fraction.
+            let fraction = (l.effective.delocalized_fraction
+                + l.effective.localized_fraction * occupancy)
+                .min(1.0);
             let ionized = d.density_cm3 * fraction;
             match l.kind {
                 DopantKind::Donor => ionized_donors += ionized,
@@ -831,6 +927,8 @@ impl<'a> Problem<'a> {
                 ionized_cm3: ionized,
                 ionized_fraction: fraction,
                 level_from_band_edge_ev: l.ionization_energy_ev,
+                level_model: l.effective.model,
+                localized_fraction: l.effective.localized_fraction,
             });
         }
         let ln_ni_effective = 0.5 * (f.ln_nc + f.ln_nv - f.gap);
@@ -910,12 +1008,10 @@ impl<'a> Problem<'a> {
             model: "Fermi-Dirac, F_1/2".into(),
             source: "see the fermi_dirac module of bandgauge-core".into(),
         });
-        if !self.doping.is_empty() {
-            models.push(ModelUsed {
-                quantity: "dopant ionization".into(),
-                model: "single level, 1/(1 + g exp(+-(E_F - E_level)/kT))".into(),
-                source: Cow::Owned(self.dopant_sources()),
-            });
+        for model in IonizationModel::ALL {
+            if let Some(entry) = self.ionization_entry(model) {
+                models.push(entry);
+            }
         }
         if let Some(bgn) = &self.options.band_gap_narrowing {
             let p = match bgn {
@@ -937,19 +1033,111 @@ impl<'a> Problem<'a> {
         models
     }
 
-    fn dopant_sources(&self) -> String {
-        let mut out = String::new();
-        for (i, d) in self.doping.iter().enumerate() {
-            let src = &d.dopant.source;
-            if self.doping[..i].iter().any(|e| &e.dopant.source == src) {
+    /// The `models` entry of one ionization model, naming the species it was used for
+    /// (None when no species used it). Built from static text without number formatting and
+    /// with two allocations, so a solve stays fast.
+    fn ionization_entry(&self, model: IonizationModel) -> Option<ModelUsed> {
+        let mut used = self.species_with(model).peekable();
+        used.peek()?;
+        let text = match model {
+            IonizationModel::Altermatt => ALTERMATT_DESCRIPTION,
+            IonizationModel::PearsonBardeen => PEARSON_BARDEEN_DESCRIPTION,
+            IonizationModel::Dilute => DILUTE_DESCRIPTION,
+        };
+        let mut description = String::with_capacity(text.len() + 64);
+        description.push_str(text);
+        push_symbols(&mut description, used.map(|(d, _)| d));
+        let mut merged = self
+            .species_with(model)
+            .filter(|(_, l)| l.effective.merged_with_band)
+            .peekable();
+        if merged.peek().is_some() {
+            description.push_str("; merged with the band, fully ionized: ");
+            push_symbols(&mut description, merged.map(|(d, _)| d));
+        }
+        // Room for two or three source texts without growing.
+        let mut source = String::with_capacity(256);
+        match model {
+            IonizationModel::Altermatt => {
+                self.push_distinct_sources(&mut source, model, |d| {
+                    d.altermatt.as_ref().map(|p| p.source.as_ref())
+                });
+            }
+            IonizationModel::PearsonBardeen => {
+                if let Some(p) = &self.material.pearson_bardeen {
+                    source.push_str(&p.source);
+                }
+                source.push_str("; E0: ");
+                self.push_distinct_sources(&mut source, model, |d| Some(d.source.as_str()));
+            }
+            IonizationModel::Dilute => {
+                self.push_distinct_sources(&mut source, model, |d| Some(d.source.as_str()));
+            }
+        }
+        Some(ModelUsed {
+            quantity: "dopant ionization".into(),
+            model: Cow::Owned(description),
+            source: Cow::Owned(source),
+        })
+    }
+
+    /// The species (dopant and prepared level) whose level comes from `model`, in input order.
+    fn species_with(
+        &self,
+        model: IonizationModel,
+    ) -> impl Iterator<Item = (&Dopant, &Level)> + Clone {
+        self.doping
+            .iter()
+            .zip(&self.levels)
+            .filter(move |(_, l)| l.effective.model == model)
+            .map(|(d, l)| (&d.dopant, l))
+    }
+
+    /// Appends the distinct `source` texts of the species whose level comes from `model`,
+    /// separated by "; ".
+    fn push_distinct_sources<'s>(
+        &'s self,
+        out: &mut String,
+        model: IonizationModel,
+        source: impl Fn(&'s Dopant) -> Option<&'s str>,
+    ) {
+        let used = self.species_with(model);
+        let mut first = true;
+        for (i, (d, _)) in used.clone().enumerate() {
+            let Some(text) = source(d) else { continue };
+            if used.clone().take(i).any(|(e, _)| source(e) == Some(text)) {
                 continue;
             }
-            if !out.is_empty() {
+            if !first {
                 out.push_str("; ");
             }
-            out.push_str(src);
+            out.push_str(text);
+            first = false;
         }
-        out
+    }
+}
+
+/// `models` text of the Altermatt model (the species follow).
+const ALTERMATT_DESCRIPTION: &str = "Altermatt et al. 2006: level E0/(1 + (N/N_ref)^c) from the \
+     band edge, a fraction 1/(1 + (N/N_b)^d) localized with occupancy \
+     1/(1 + g exp(+-(E_F - E_level)/kT)), the rest always ionized; N = density of all dopants \
+     of the same kind; for ";
+/// `models` text of the Pearson-Bardeen model (the species follow).
+const PEARSON_BARDEEN_DESCRIPTION: &str = "Pearson-Bardeen: level E0 - alpha N^(1/3) from the \
+     band edge (E0 the dopant's dilute level), occupancy 1/(1 + g exp(+-(E_F - E_level)/kT)); \
+     N = density of all dopants of the same kind; where E0 - alpha N^(1/3) <= 0 the level has \
+     merged with the band and the species counts as fully ionized; for ";
+/// `models` text of the constant level (the species follow).
+const DILUTE_DESCRIPTION: &str =
+    "dilute: constant level, 1/(1 + g exp(+-(E_F - E_level)/kT)); for ";
+
+/// Appends the symbols, separated by ", ".
+fn push_symbols<'d>(out: &mut String, dopants: impl Iterator<Item = &'d Dopant>) {
+    for (i, d) in dopants.enumerate() {
+        if i > 0 {
+            out.push_str(", ");
+        }
+        out.push_str(&d.symbol);
     }
 }
 
@@ -1049,9 +1237,27 @@ mod tests {
     #[test]
     fn linear_and_logarithmic_evaluations_agree() {
         let m = materials::silicon();
-        let d = doping(&m, &[("P", 1e17), ("B", 3e16), ("In", 1e15)]);
-        let options = SolveOptions::default();
-        let problem = Problem::new(&m, &d, &options).unwrap();
+        // Altermatt with a tiny and with a large always-ionized part, and a merged
+        // Pearson-Bardeen level (Ga at 2e19 acceptors).
+        for list in [
+            &[("P", 1e17), ("B", 3e16), ("In", 1e15)][..],
+            &[("P", 1e19), ("Ga", 2e19), ("B", 1e15)][..],
+        ] {
+            let d = doping(&m, list);
+            for options in [
+                SolveOptions::default(),
+                SolveOptions {
+                    ionization_model: IonizationModel::Dilute,
+                    ..Default::default()
+                },
+            ] {
+                evaluations_agree(&m, &d, &options);
+            }
+        }
+    }
+
+    fn evaluations_agree(m: &Material, d: &[DopantDensity], options: &SolveOptions) {
+        let problem = Problem::new(m, d, options).unwrap();
         for t in [20.0, 77.0, 300.0, 900.0] {
             let f = problem.frame(t).unwrap();
             for u in [
@@ -1094,6 +1300,30 @@ mod tests {
                 "{t} K: {}",
                 e.relative_residual
             );
+        }
+    }
+
+    #[test]
+    fn always_ionized_dopants_keep_carriers_at_any_temperature() {
+        // 1e20 cm^-3 P is metallic: b = 0.0015 (Altermatt et al. 2006, P set, formula
+        // evaluated), so n stays at (1 - b) N = 0.9985e20 down to 1 K, through the logarithmic
+        // evaluation.
+        let m = materials::silicon();
+        let d = doping(&m, &[("P", 1e20), ("B", 1e15)]);
+        for t in [1.0, 5.0, 30.0] {
+            let e = solve(&m, t, &d, &SolveOptions::default()).unwrap();
+            assert!(e.relative_residual < 1e-9, "{t} K");
+            let b = e.species[0].localized_fraction;
+            assert!((1e-3..2e-3).contains(&b), "{b}");
+            // At 1 K the localized donors are all neutral and n sits on the floor itself,
+            // up to the solver's 1e-12 residual.
+            let floor = ((1.0 - b) * 1e20 - 1e15) * (1.0 - 1e-11);
+            assert!(
+                e.electrons_cm3 >= floor && e.electrons_cm3 < 1e20,
+                "{t} K: {}",
+                e.electrons_cm3
+            );
+            assert_eq!(e.regime, Regime::Extrinsic, "{t} K");
         }
     }
 

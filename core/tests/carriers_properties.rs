@@ -1,7 +1,8 @@
-//! Property tests of the neutrality solver over random materials, temperatures (5-2000 K) and doping (0-1e21 cm^-3).
+//! Property tests of the neutrality solver over random materials, temperatures (5-2000 K), doping (0-1e21 cm^-3) and ionization models.
 
 use bandgauge_core::bandgap::Varshni;
 use bandgauge_core::dos::PowerLaw;
+use bandgauge_core::ionization::{AltermattParameters, IonizationModel, PearsonBardeenParameters};
 use bandgauge_core::materials::{
     self, Dopant, DopantDensity, DopantKind, Material, MaterialSources,
 };
@@ -28,12 +29,46 @@ fn density_cm3() -> impl Strategy<Value = f64> {
     prop_oneof![1 => Just(0.0), 4 => (0.0f64..21.0).prop_map(|e| 10f64.powf(e))]
 }
 
+/// A random Altermatt-form set (test data, not a published one).
+fn user_altermatt() -> impl Strategy<Value = AltermattParameters> {
+    (
+        0.001f64..0.3,
+        16.0f64..21.0,
+        0.5f64..3.0,
+        16.0f64..21.0,
+        0.5f64..4.0,
+    )
+        .prop_map(|(e0, n_ref, c, n_b, d)| AltermattParameters {
+            e0_ev: e0,
+            n_ref_cm3: 10f64.powf(n_ref),
+            c,
+            n_b_cm3: 10f64.powf(n_b),
+            d,
+            source: "random test data".into(),
+        })
+}
+
 fn user_dopant(kind: DopantKind, index: usize) -> impl Strategy<Value = Dopant> {
-    (0.001f64..0.3, 1.0f64..4.0).prop_map(move |(e, g)| Dopant {
-        symbol: format!("{kind}{index}"),
-        kind,
-        ionization_energy_ev: e,
-        degeneracy: g,
+    (
+        0.001f64..0.3,
+        1.0f64..4.0,
+        prop::option::of(user_altermatt()),
+    )
+        .prop_map(move |(e, g, altermatt)| Dopant {
+            symbol: format!("{kind}{index}"),
+            kind,
+            ionization_energy_ev: e,
+            degeneracy: g,
+            source: "random test data".into(),
+            altermatt,
+        })
+}
+
+/// Random Pearson-Bardeen alpha values, up to ten times silicon's (test data).
+fn user_pearson_bardeen() -> impl Strategy<Value = PearsonBardeenParameters> {
+    (0.0f64..3e-7, 0.0f64..3e-7).prop_map(|(donor, acceptor)| PearsonBardeenParameters {
+        donor_alpha_ev_cm: donor,
+        acceptor_alpha_ev_cm: acceptor,
         source: "random test data".into(),
     })
 }
@@ -47,29 +82,33 @@ fn user_material() -> impl Strategy<Value = Material> {
         user_dopant(DopantKind::Donor, 2),
         user_dopant(DopantKind::Acceptor, 1),
         user_dopant(DopantKind::Acceptor, 2),
+        prop::option::of(user_pearson_bardeen()),
     )
-        .prop_map(|((eg0, a, b), (nc, xc, nv, xv), d1, d2, a1, a2)| Material {
-            id: "random".into(),
-            name: "Random test material".into(),
-            varshni: Varshni {
-                eg0_ev: eg0,
-                alpha_ev_per_k: a,
-                beta_k: b,
+        .prop_map(
+            |((eg0, a, b), (nc, xc, nv, xv), d1, d2, a1, a2, pb)| Material {
+                id: "random".into(),
+                name: "Random test material".into(),
+                varshni: Varshni {
+                    eg0_ev: eg0,
+                    alpha_ev_per_k: a,
+                    beta_k: b,
+                },
+                nc: PowerLaw {
+                    at_300k_cm3: 10f64.powf(nc),
+                    exponent: xc,
+                },
+                nv: PowerLaw {
+                    at_300k_cm3: 10f64.powf(nv),
+                    exponent: xv,
+                },
+                relative_permittivity: 10.0,
+                dopants: vec![d1, d2, a1, a2],
+                sources: MaterialSources::default(),
+                pearson_bardeen: pb,
+                intrinsic_fit: None,
+                band_gap_narrowing: None,
             },
-            nc: PowerLaw {
-                at_300k_cm3: 10f64.powf(nc),
-                exponent: xc,
-            },
-            nv: PowerLaw {
-                at_300k_cm3: 10f64.powf(nv),
-                exponent: xv,
-            },
-            relative_permittivity: 10.0,
-            dopants: vec![d1, d2, a1, a2],
-            sources: MaterialSources::default(),
-            intrinsic_fit: None,
-            band_gap_narrowing: None,
-        })
+        )
 }
 
 fn any_material() -> impl Strategy<Value = Material> {
@@ -77,6 +116,13 @@ fn any_material() -> impl Strategy<Value = Material> {
         1 => (0usize..4).prop_map(|i| materials::builtin().swap_remove(i)),
         1 => user_material(),
     ]
+}
+
+fn any_options() -> impl Strategy<Value = SolveOptions> {
+    prop::sample::select(IonizationModel::ALL.to_vec()).prop_map(|model| SolveOptions {
+        ionization_model: model,
+        ..Default::default()
+    })
 }
 
 /// A material with up to four of its species at random densities.
@@ -103,8 +149,9 @@ fn solve_or_physical_refusal(
     m: &Material,
     t: f64,
     doping: &[DopantDensity],
+    options: &SolveOptions,
 ) -> Result<Option<Equilibrium>, TestCaseError> {
-    match neutrality::solve(m, t, doping, &SolveOptions::default()) {
+    match neutrality::solve(m, t, doping, options) {
         Ok(e) => Ok(Some(e)),
         Err(CarrierError::NonPositiveBandGap { .. } | CarrierError::LevelOutsideGap { .. }) => {
             Ok(None)
@@ -117,8 +164,8 @@ proptest! {
     #![proptest_config(ProptestConfig::with_cases(512))]
 
     #[test]
-    fn residual_is_small_and_outputs_finite((m, t, doping) in problem()) {
-        let Some(e) = solve_or_physical_refusal(&m, t, &doping)? else { return Ok(()) };
+    fn residual_is_small_and_outputs_finite((m, t, doping) in problem(), options in any_options()) {
+        let Some(e) = solve_or_physical_refusal(&m, t, &doping, &options)? else { return Ok(()) };
         prop_assert!(e.relative_residual < RESIDUAL_GUARANTEE, "residual {}", e.relative_residual);
         let numbers = [
             e.band_gap_ev, e.nc_cm3, e.nv_cm3, e.intrinsic_cm3, e.effective_intrinsic_cm3,
@@ -129,7 +176,9 @@ proptest! {
         prop_assert!(numbers.iter().all(|x| x.is_finite()), "{:?}", numbers);
         for s in &e.species {
             prop_assert!((0.0..=1.0).contains(&s.ionized_fraction));
+            prop_assert!((0.0..=1.0).contains(&s.localized_fraction));
             prop_assert!(s.ionized_cm3 <= s.density_cm3);
+            prop_assert!(s.level_from_band_edge_ev >= 0.0 && s.level_from_band_edge_ev.is_finite());
         }
         // E_F - E_V - (E_F - E_C) = E_C - E_V.
         let gap = e.fermi_minus_valence_ev - e.fermi_minus_conduction_ev;
@@ -151,8 +200,9 @@ proptest! {
         (m, t, doping) in problem(),
         factor in 1.0f64..1e6,
         extra in density_cm3(),
+        options in any_options(),
     ) {
-        let Some(base) = solve_or_physical_refusal(&m, t, &doping)? else { return Ok(()) };
+        let Some(base) = solve_or_physical_refusal(&m, t, &doping, &options)? else { return Ok(()) };
         let donor = m.dopants.iter().find(|d| d.kind == DopantKind::Donor).cloned();
         let Some(donor) = donor else { return Ok(()) };
         let mut more = doping.clone();
@@ -160,7 +210,7 @@ proptest! {
             d.density_cm3 = (d.density_cm3 * factor).min(1e21);
         }
         more.push(DopantDensity { dopant: donor, density_cm3: extra });
-        let Some(after) = solve_or_physical_refusal(&m, t, &more)? else { return Ok(()) };
+        let Some(after) = solve_or_physical_refusal(&m, t, &more, &options)? else { return Ok(()) };
         prop_assert!(
             after.log10_electrons_cm3 >= base.log10_electrons_cm3 - MONOTONIC_SLACK_LOG10,
             "log10 n fell from {} to {}", base.log10_electrons_cm3, after.log10_electrons_cm3

@@ -17,7 +17,9 @@ pub async fn number_until(client: &Client, id: &str, accept: impl Fn(f64) -> boo
         let text = by_testid(client, id).await.text().await.unwrap_or_default();
         match text.trim().parse::<f64>() {
             Ok(v) if accept(v) => return v,
-            _ if Instant::now() > deadline => panic!("[data-testid={id}] shows '{text}', not an accepted number"),
+            _ if Instant::now() > deadline => {
+                panic!("[data-testid={id}] shows '{text}', not an accepted number")
+            }
             _ => tokio::time::sleep(Duration::from_millis(50)).await,
         }
     }
@@ -28,13 +30,15 @@ pub async fn number_near(client: &Client, id: &str, expected: f64, rel_tol: f64)
     let deadline = Instant::now() + SETTLE;
     loop {
         let text = by_testid(client, id).await.text().await.unwrap_or_default();
-        if let Ok(v) = text.trim().parse::<f64>() {
-            if ((v - expected) / expected).abs() <= rel_tol {
-                return v;
-            }
+        if let Ok(v) = text.trim().parse::<f64>()
+            && ((v - expected) / expected).abs() <= rel_tol
+        {
+            return v;
         }
         if Instant::now() > deadline {
-            panic!("[data-testid={id}] shows '{text}'; expected {expected:e} within {rel_tol:e} relative");
+            panic!(
+                "[data-testid={id}] shows '{text}'; expected {expected:e} within {rel_tol:e} relative"
+            );
         }
         tokio::time::sleep(Duration::from_millis(50)).await;
     }
@@ -47,12 +51,20 @@ pub async fn text_of(client: &Client, id: &str) -> String {
 
 /// Chooses the option with `value` in the `<select>` `[data-testid=id]`.
 pub async fn choose(client: &Client, id: &str, value: &str) {
-    by_testid(client, id).await.select_by_value(value).await.unwrap_or_else(|e| panic!("choose {value} in {id}: {e}"));
+    by_testid(client, id)
+        .await
+        .select_by_value(value)
+        .await
+        .unwrap_or_else(|e| panic!("choose {value} in {id}: {e}"));
 }
 
 /// Clicks `[data-testid=id]`.
 pub async fn click(client: &Client, id: &str) {
-    by_testid(client, id).await.click().await.unwrap_or_else(|e| panic!("click {id}: {e}"));
+    by_testid(client, id)
+        .await
+        .click()
+        .await
+        .unwrap_or_else(|e| panic!("click {id}: {e}"));
 }
 
 /// The value of an attribute of `[data-testid=id]`.
@@ -84,9 +96,17 @@ pub async fn canvas_ink(client: &Client, id: &str) -> CanvasInk {
         for (let i = 0; i < d.length; i += 4) { if (d[i] < 200 || d[i + 1] < 200 || d[i + 2] < 200) n++; }
         return [n, c.width, c.getBoundingClientRect().width, window.devicePixelRatio];
     "#;
-    let v = client.execute(script, vec![serde_json::json!(id)]).await.expect("read canvas pixels");
+    let v = client
+        .execute(script, vec![serde_json::json!(id)])
+        .await
+        .expect("read canvas pixels");
     let n = |i: usize| v[i].as_f64().unwrap_or(0.0);
-    CanvasInk { inked_pixels: n(0) as u64, width: n(1) as u64, css_width: n(2), device_pixel_ratio: n(3) }
+    CanvasInk {
+        inked_pixels: n(0) as u64,
+        width: n(1) as u64,
+        css_width: n(2),
+        device_pixel_ratio: n(3),
+    }
 }
 
 /// Polls the canvas until at least `min_pixels` are inked (the chart has been drawn).
@@ -97,7 +117,10 @@ pub async fn canvas_drawn(client: &Client, id: &str, min_pixels: u64) -> CanvasI
         if ink.inked_pixels >= min_pixels {
             return ink;
         }
-        assert!(Instant::now() < deadline, "canvas {id} stays blank: {ink:?}");
+        assert!(
+            Instant::now() < deadline,
+            "canvas {id} stays blank: {ink:?}"
+        );
         tokio::time::sleep(Duration::from_millis(100)).await;
     }
 }
@@ -112,16 +135,27 @@ pub async fn record_downloads(client: &Client) {
         URL.createObjectURL = function (b) { window.__blobs.push(b); return 'blob:recorded-' + window.__blobs.length; };
         URL.revokeObjectURL = function () {};
     "#;
-    client.execute(script, vec![]).await.expect("install download recorder");
+    client
+        .execute(script, vec![])
+        .await
+        .expect("install download recorder");
 }
 
 /// The downloads recorded so far: (file name, URL).
 pub async fn downloads(client: &Client) -> Vec<(String, String)> {
-    let v = client.execute("return window.__downloads || [];", vec![]).await.expect("read downloads");
+    let v = client
+        .execute("return window.__downloads || [];", vec![])
+        .await
+        .expect("read downloads");
     v.as_array()
         .map(|a| {
             a.iter()
-                .map(|d| (d[0].as_str().unwrap_or("").to_string(), d[1].as_str().unwrap_or("").to_string()))
+                .map(|d| {
+                    (
+                        d[0].as_str().unwrap_or("").to_string(),
+                        d[1].as_str().unwrap_or("").to_string(),
+                    )
+                })
                 .collect()
         })
         .unwrap_or_default()
@@ -134,7 +168,10 @@ pub async fn last_blob_text(client: &Client) -> String {
         const b = window.__blobs[window.__blobs.length - 1];
         b.text().then(done);
     "#;
-    let v = client.execute_async(script, vec![]).await.expect("read blob");
+    let v = client
+        .execute_async(script, vec![])
+        .await
+        .expect("read blob");
     v.as_str().unwrap_or("").to_string()
 }
 
@@ -146,5 +183,8 @@ pub async fn query(client: &Client) -> String {
 
 /// Runs a script in the page and ignores its result.
 pub async fn run_script(client: &Client, script: &str) {
-    client.execute(script, vec![]).await.unwrap_or_else(|e| panic!("script failed: {e}"));
+    client
+        .execute(script, vec![])
+        .await
+        .unwrap_or_else(|e| panic!("script failed: {e}"));
 }

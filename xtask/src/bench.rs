@@ -1,5 +1,6 @@
 //! `cargo xtask bench`: criterion benchmarks of the core, the same neutrality problem
-//! scripted in Python with SciPy for a speed ratio, printed as one table.
+//! scripted in Python with SciPy for a speed ratio, the release wasm size, and the
+//! in-browser redraw timings (headless Chromium), printed as one table.
 //!
 //! Machines here are noisy: every figure is a median, and comparisons are ratios
 //! measured in the same run.
@@ -42,7 +43,70 @@ pub fn run(_args: &[String]) -> Result<(), String> {
         (Err(e), _) => println!("python comparison not run: {e}"),
         (_, None) => println!("python comparison not run: no criterion result named {SOLVE_BENCH}"),
     }
+    browser_rows()
+}
+
+/// Release build, its wasm size raw and gzipped, and the in-browser redraw medians.
+fn browser_rows() -> Result<(), String> {
+    crate::tools::ensure_build_tools()?;
+    crate::tools::ensure_chromium()?;
+    let dist = crate::dist::build_release()?;
+    for wasm in crate::dist::wasm_files(&dist)? {
+        let bytes =
+            std::fs::read(&wasm).map_err(|e| format!("cannot read {}: {e}", wasm.display()))?;
+        let gz = gzip_len(&bytes)?;
+        println!(
+            "{:<56} {:>11.0} KB",
+            "release wasm, raw",
+            bytes.len() as f64 / 1024.0
+        );
+        println!(
+            "{:<56} {:>11.0} KB",
+            "release wasm, gzip -9",
+            gz as f64 / 1024.0
+        );
+    }
+    let out = shell::capture(
+        shell::cargo()
+            .args([
+                "bench",
+                "-p",
+                "bandgauge-tests",
+                "--features",
+                "browser",
+                "--bench",
+                "browser_redraw",
+            ])
+            .env("BANDGAUGE_DIST", &dist),
+    )?;
+    let text = String::from_utf8_lossy(&out.stdout);
+    let mut any = false;
+    for (name, value) in text.lines().filter_map(|l| l.trim().split_once('=')) {
+        if let (Some(view), Ok(ms)) = (name.strip_prefix("browser_redraw_"), value.parse::<f64>()) {
+            any = true;
+            let label = format!(
+                "browser: input to charts redrawn, {}",
+                view.trim_end_matches("_ms")
+            );
+            println!("{label:<56} {:>14}", format_ns(ms * 1e6));
+        }
+    }
+    if !any {
+        return Err(format!(
+            "the browser benchmark printed no timings:\n{text}\n{}",
+            String::from_utf8_lossy(&out.stderr)
+        ));
+    }
     Ok(())
+}
+
+fn gzip_len(bytes: &[u8]) -> Result<usize, String> {
+    use std::io::Write as _;
+    let mut gz = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());
+    gz.write_all(bytes).map_err(|e| format!("gzip: {e}"))?;
+    gz.finish()
+        .map(|v| v.len())
+        .map_err(|e| format!("gzip: {e}"))
 }
 
 /// Runs the Python reference script (installing SciPy and mpmath from PyPI when missing)

@@ -146,6 +146,8 @@ pub fn run(args: &[String]) -> Result<(), String> {
                     "browser",
                     "--test",
                     "offline",
+                    "--test",
+                    "lots_browser",
                 ])
                 .env("BANDGAUGE_DIST", dist)
                 .env("BANDGAUGE_ROOT", root()),
