@@ -12,10 +12,10 @@ use bandgauge_core::bgn::BgnModel;
 use bandgauge_core::intrinsic::IntrinsicModel;
 use bandgauge_core::ionization::IonizationModel;
 use bandgauge_core::materials::{self, Dopant, DopantDensity, DopantKind, Material};
-use bandgauge_core::mobility::{self, CarrierMobilities, MobilityModel};
+use bandgauge_core::mobility::{ConductivityType, MobilityModel};
 use bandgauge_core::neutrality::{self, Equilibrium, SolveOptions};
 use bandgauge_core::probe;
-use bandgauge_core::resistivity::{self, PhysicsOptions};
+use bandgauge_core::resistivity::{self, MixResistivity, PhysicsOptions};
 use leptos::prelude::*;
 
 /// Key of the intrinsic model computed from Nc, Nv and the gap.
@@ -81,37 +81,8 @@ pub fn band_gap_narrowing(on: bool, material: &Material) -> Result<Option<BgnMod
     }
 }
 
-/// The species whose mobility parameter set applies: the majority kind's most abundant
-/// species, else the most abundant of any kind, else the material's first donor.
-pub fn mobility_species(
-    material: &Material,
-    doping: &[DopantDensity],
-    n_type: bool,
-) -> Option<String> {
-    let majority = if n_type {
-        DopantKind::Donor
-    } else {
-        DopantKind::Acceptor
-    };
-    let largest = |kind: Option<DopantKind>| {
-        doping
-            .iter()
-            .filter(|d| kind.is_none_or(|k| d.dopant.kind == k) && d.density_cm3 > 0.0)
-            .max_by(|a, b| a.density_cm3.total_cmp(&b.density_cm3))
-            .map(|d| d.dopant.symbol.clone())
-    };
-    largest(Some(majority))
-        .or_else(|| largest(None))
-        .or_else(|| {
-            material
-                .dopants
-                .iter()
-                .find(|d| d.kind == DopantKind::Donor)
-                .map(|d| d.symbol.clone())
-        })
-}
-
-/// The mobility model for a state key: "" picks the first model that applies.
+/// The mobility model for a state key: "" picks the first model that applies to `species`
+/// (the species whose parameter sets the core uses, [`resistivity::mobility_species`]).
 pub fn mobility_model(
     key: &str,
     material: &Material,
@@ -179,37 +150,10 @@ pub struct Outcome {
     pub request: Request,
     /// The equilibrium state.
     pub equilibrium: Equilibrium,
-    /// Mobilities, or why there are none.
-    pub mobility: Result<CarrierMobilities, String>,
-    /// Resistivity, ohm cm, or why there is none.
-    pub resistivity_ohm_cm: Result<f64, String>,
+    /// Mobilities and resistivity of the whole mix from the core, or why there are none.
+    pub transport: Result<MixResistivity, String>,
     /// Sheet resistance of the layer, ohm/sq, or why there is none.
     pub sheet_ohm_sq: Result<f64, String>,
-}
-
-/// The resistivity of the request's sample from the core's physics conversion, which covers a
-/// single dopant species (or none); mixed doping has no core function yet.
-fn resistivity_of(
-    r: &Request,
-    model: MobilityModel,
-    mobility_species: &str,
-) -> Result<f64, String> {
-    let present: Vec<&DopantDensity> = r.doping.iter().filter(|d| d.density_cm3 > 0.0).collect();
-    let options = PhysicsOptions {
-        mobility: model,
-        solve: r.options.clone(),
-    };
-    let (species, density) = match present.as_slice() {
-        [] => (mobility_species, 0.0),
-        [one] => (one.dopant.symbol.as_str(), one.density_cm3),
-        _ => return Err(
-            "resistivity: the core converts one dopant species at a time; remove all but one row"
-                .into(),
-        ),
-    };
-    resistivity::resistivity_from_density(&r.material, species, density, r.temperature_k, &options)
-        .map(|p| p.resistivity_ohm_cm)
-        .map_err(|e| e.to_string())
 }
 
 /// Solves a request with the core.
@@ -217,30 +161,34 @@ pub fn evaluate(request: &Request) -> Result<Outcome, String> {
     let r = request;
     let equilibrium = neutrality::solve(&r.material, r.temperature_k, &r.doping, &r.options)
         .map_err(|e| e.to_string())?;
-    let n_type = equilibrium.electrons_cm3 >= equilibrium.holes_cm3;
-    let species = mobility_species(&r.material, &r.doping, n_type).unwrap_or_default();
-    let mobility = mobility_model(&r.mobility_key, &r.material, &species).and_then(|model| {
+    let majority = if equilibrium.electrons_cm3 >= equilibrium.holes_cm3 {
+        ConductivityType::N
+    } else {
+        ConductivityType::P
+    };
+    // The core picks the parameter species; it is needed here only for the "first that
+    // applies" choice of model.
+    let species = resistivity::mobility_species(&r.material, &r.doping, majority)
+        .map(|d| d.symbol)
+        .unwrap_or_default();
+    let transport = mobility_model(&r.mobility_key, &r.material, &species).and_then(|model| {
         let model = model
             .ok_or_else(|| format!("mobility: no model has parameters for {}", r.material.name))?;
-        let impurities = equilibrium.ionized_donors_cm3 + equilibrium.ionized_acceptors_cm3;
-        mobility::mobility(model, &r.material.id, &species, impurities, r.temperature_k)
+        let options = PhysicsOptions {
+            mobility: model,
+            solve: r.options.clone(),
+        };
+        resistivity::resistivity_of_mix(&r.material, r.temperature_k, &r.doping, &options)
             .map_err(|e| e.to_string())
     });
-    let resistivity_ohm_cm = mobility
-        .as_ref()
-        .map_err(Clone::clone)
-        .and_then(|mu| resistivity_of(r, mu.model, species.as_str()));
-    let sheet_ohm_sq = resistivity_ohm_cm
-        .as_ref()
-        .map_err(Clone::clone)
-        .and_then(|rho| {
-            probe::sheet_resistance_ohm_sq(*rho, r.thickness_cm).map_err(|e| e.to_string())
-        });
+    let sheet_ohm_sq = transport.as_ref().map_err(Clone::clone).and_then(|t| {
+        probe::sheet_resistance_ohm_sq(t.resistivity_ohm_cm, r.thickness_cm)
+            .map_err(|e| e.to_string())
+    });
     Ok(Outcome {
         request: request.clone(),
         equilibrium,
-        mobility,
-        resistivity_ohm_cm,
+        transport,
         sheet_ohm_sq,
     })
 }
@@ -511,17 +459,13 @@ pub fn CarriersView(
     let intrinsic_error = Signal::derive(move || reading.intrinsic.get().err());
     let bgn_error = Signal::derive(move || reading.bgn.get().err());
     let mobility_error = Signal::derive(move || match outcome.get() {
-        Some(Ok(o)) => o.mobility.err(),
+        Some(Ok(o)) => o.transport.err(),
         _ => None,
     });
     let transport_problem = Memo::new(move |_| {
         shown.with(|o| {
             let o = o.as_ref()?;
-            o.mobility
-                .as_ref()
-                .err()
-                .or(o.resistivity_ohm_cm.as_ref().err())
-                .cloned()
+            o.transport.as_ref().err().cloned()
         })
     });
     let bgn_on = Memo::new(move |_| inputs.with(|w| w.carriers.band_gap_narrowing));
@@ -541,9 +485,11 @@ pub fn CarriersView(
     let models = Signal::derive(move || {
         shown.with(|o| {
             let Some(o) = o else { return Vec::new() };
-            let mut list: Vec<(String, String, String)> = o
-                .equilibrium
-                .models
+            let used = match &o.transport {
+                Ok(t) => &t.models,
+                Err(_) => &o.equilibrium.models,
+            };
+            let mut list: Vec<(String, String, String)> = used
                 .iter()
                 .map(|m| {
                     (
@@ -553,14 +499,9 @@ pub fn CarriersView(
                     )
                 })
                 .collect();
-            if let Ok(mu) = &o.mobility {
-                list.push((
-                    "mobility".into(),
-                    mu.model.name().into(),
-                    mu.model.reference().into(),
-                ));
+            if let Ok(t) = &o.transport {
                 list.extend(
-                    mu.notes
+                    t.notes
                         .iter()
                         .map(|n| ("mobility note".into(), n.clone(), String::new())),
                 );
@@ -664,19 +605,19 @@ const BAND_LINES: [Line; 10] = [
 /// Mobilities, resistivity and sheet resistance ("—" where the core gives none).
 const TRANSPORT_LINES: [Line; 4] = [
     ("mu-n", "Electron mobility μn", "cm²/V·s", |o| {
-        o.mobility
-            .as_ref()
-            .map_or("—".into(), |m| format::auto(m.electrons_cm2_per_v_s))
+        o.transport.as_ref().map_or("—".into(), |t| {
+            format::auto(t.electron_mobility_cm2_per_v_s)
+        })
     }),
     ("mu-p", "Hole mobility μp", "cm²/V·s", |o| {
-        o.mobility
+        o.transport
             .as_ref()
-            .map_or("—".into(), |m| format::auto(m.holes_cm2_per_v_s))
+            .map_or("—".into(), |t| format::auto(t.hole_mobility_cm2_per_v_s))
     }),
     ("resistivity", "Resistivity ρ", "Ω·cm", |o| {
-        o.resistivity_ohm_cm
+        o.transport
             .as_ref()
-            .map_or("—".into(), |v| format::auto(*v))
+            .map_or("—".into(), |t| format::auto(t.resistivity_ohm_cm))
     }),
     ("sheet-resistance", "Sheet resistance Rs", "Ω/□", |o| {
         o.sheet_ohm_sq
@@ -707,7 +648,8 @@ fn regime_text(eq: &Equilibrium) -> String {
     }
 }
 
-/// The ionization of each species.
+/// The ionization of each species, with the level model it used (a species without a
+/// parameter set of the chosen model falls back to another, see `bandgauge_core::ionization`).
 #[component]
 fn SpeciesTable(shown: Memo<Option<Outcome>>) -> impl IntoView {
     view! {
@@ -717,6 +659,7 @@ fn SpeciesTable(shown: Memo<Option<Outcome>>) -> impl IntoView {
                 <tr>
                     <th scope="col">"Species"</th>
                     <th scope="col">"Level"</th>
+                    <th scope="col">"Level model"</th>
                     <th scope="col">"Density (cm⁻³)"</th>
                     <th scope="col">"Ionized (cm⁻³)"</th>
                     <th scope="col">"Ionized fraction"</th>
@@ -740,6 +683,7 @@ fn SpeciesTable(shown: Memo<Option<Outcome>>) -> impl IntoView {
                                             <tr>
                                                 <th scope="row">{format!("{} ({})", s.symbol, s.kind)}</th>
                                                 <td>{level}</td>
+                                                <td title=s.level_model.name() data-testid=format!("species-{i}-level-model")>{s.level_model.id()}</td>
                                                 <td>{format::sci(s.density_cm3)}</td>
                                                 <td>{format::sci(s.ionized_cm3)}</td>
                                                 <td data-testid=format!("species-{i}-fraction")>{format::percent(s.ionized_fraction, 2)}</td>
@@ -905,22 +849,44 @@ mod tests {
         let o = evaluate(&r).expect("solves");
         let direct = neutrality::solve(&r.material, 300.0, &r.doping, &r.options).expect("core");
         assert_eq!(o.equilibrium, direct);
-        assert!(
-            o.resistivity_ohm_cm.is_err(),
-            "two species: no core function yet"
-        );
+        let options = PhysicsOptions::with_mobility(MobilityModel::Masetti);
+        let mix = resistivity::resistivity_of_mix(&r.material, 300.0, &r.doping, &options);
+        assert_eq!(o.transport, mix.map_err(|e| e.to_string()));
+        let rho = o
+            .transport
+            .as_ref()
+            .expect("mixed doping has a resistivity")
+            .resistivity_ohm_cm;
+        assert_eq!(o.sheet_ohm_sq, Ok(rho / 0.0525));
         let single = evaluate(&request(&[("P", 1e15)], 300.0)).expect("solves");
-        let rho = single.resistivity_ohm_cm.expect("rho");
+        let one = resistivity::resistivity_from_density(&r.material, "P", 1e15, 300.0, &options)
+            .expect("core");
+        let rho = single.transport.expect("rho").resistivity_ohm_cm;
+        assert_eq!(rho, one.resistivity_ohm_cm);
         assert_eq!(single.sheet_ohm_sq, Ok(rho / 0.0525));
     }
 
     #[test]
-    fn mobility_follows_the_majority_species() {
-        let m = si();
-        let doping = request(&[("P", 1e15), ("B", 1e16), ("Ga", 2e16)], 300.0).doping;
-        assert_eq!(mobility_species(&m, &doping, false).as_deref(), Some("Ga"));
-        assert_eq!(mobility_species(&m, &doping, true).as_deref(), Some("P"));
-        assert_eq!(mobility_species(&m, &[], true).as_deref(), Some("P"));
+    fn automatic_mobility_model_follows_the_majority_species() {
+        // Ga majority (p-type): Masetti has no Ga set, so the first that applies is Arora.
+        let o =
+            evaluate(&request(&[("P", 1e15), ("B", 1e16), ("Ga", 2e16)], 300.0)).expect("solves");
+        let t = o.transport.expect("transport");
+        assert_eq!(
+            (t.mobility_species.as_str(), t.mobility_model),
+            ("Ga", MobilityModel::Arora)
+        );
+        // P majority: Masetti with its P set.
+        let o = evaluate(&request(&[("P", 2e16), ("Ga", 1e16)], 300.0)).expect("solves");
+        let t = o.transport.expect("transport");
+        assert_eq!(
+            (t.mobility_species.as_str(), t.mobility_model),
+            ("P", MobilityModel::Masetti)
+        );
+        // Masetti named for a Ga-majority sample is refused with the core's message.
+        let mut r = request(&[("Ga", 1e16)], 300.0);
+        r.mobility_key = "masetti".into();
+        assert!(evaluate(&r).expect("solves").transport.is_err());
     }
 
     #[test]

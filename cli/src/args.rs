@@ -87,6 +87,12 @@ pub struct CarriersArgs {
     #[arg(long)]
     pub gap_narrowing: bool,
 
+    /// Dopant-level model: altermatt (default: levels and localized fraction lowered with
+    /// density, Altermatt et al. 2006), pearson-bardeen (level lowered with density) or
+    /// dilute (constant levels).
+    #[arg(long, value_name = "MODEL")]
+    pub ionization_model: Option<String>,
+
     /// Write one JSON object instead of the table.
     #[arg(long)]
     pub json: bool,
@@ -145,6 +151,12 @@ pub struct ConvertArgs {
     /// Uncertainty of the temperature: 0.5K, 0.5C or 0.2%.
     #[arg(long, value_name = "SPREAD", allow_hyphen_values = true)]
     pub temperature_uncertainty: Option<String>,
+
+    /// Dopant-level model: altermatt (default: levels and localized fraction lowered with
+    /// density, Altermatt et al. 2006), pearson-bardeen (level lowered with density) or
+    /// dilute (constant levels).
+    #[arg(long, value_name = "MODEL")]
+    pub ionization_model: Option<String>,
 
     /// Write one JSON object instead of the table.
     #[arg(long)]

@@ -124,8 +124,10 @@ impl CarriersRequest {
         let options = SolveOptions {
             intrinsic_model,
             band_gap_narrowing: args.gap_narrowing.then_some(BgnModel::MaterialSet),
-            // The core's default dopant-level model; the command line does not choose one yet.
-            ..SolveOptions::default()
+            ionization_model: request::ionization_model(
+                "--ionization-model",
+                args.ionization_model.as_deref(),
+            )?,
         };
         Ok(CarriersRequest {
             material,

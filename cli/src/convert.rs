@@ -57,6 +57,8 @@ pub struct ConvertRequest {
     pub temperature_k: Measured,
     /// The model whose answer comes first.
     pub model: ConversionModel,
+    /// Carrier-statistics options of the physics models (the dopant-level model).
+    pub solve: SolveOptions,
     /// JSON instead of the table.
     pub json: bool,
 }
@@ -137,6 +139,13 @@ impl ConvertRequest {
             given,
             temperature_k,
             model,
+            solve: SolveOptions {
+                ionization_model: request::ionization_model(
+                    "--ionization-model",
+                    args.ionization_model.as_deref(),
+                )?,
+                ..SolveOptions::default()
+            },
             json: args.json,
         })
     }
@@ -244,7 +253,7 @@ struct Answer {
 }
 
 fn solve(request: &ConvertRequest) -> Result<Answer, BadInput> {
-    let solve = SolveOptions::default();
+    let solve = request.solve.clone();
     let input = request.given.input();
     let t = request.temperature_k.value;
     let conversion = compare::convert(

@@ -5,6 +5,7 @@
 //! the core, whose errors the commands map back to the argument concerned.
 
 use bandgauge_core::compare::ConversionModel;
+use bandgauge_core::ionization::IonizationModel;
 use bandgauge_core::materials::{self, Dopant, DopantDensity, DopantKind, Material, MaterialError};
 use bandgauge_core::uncertainty::{Measured, UncertaintyError};
 use bandgauge_core::units::{self, QuantityKind, Spread};
@@ -13,6 +14,22 @@ use std::path::Path;
 
 use crate::error::BadInput;
 use crate::output;
+
+/// Reads the dopant-level model; without the option, the core's default.
+pub fn ionization_model(argument: &str, text: Option<&str>) -> Result<IonizationModel, BadInput> {
+    let Some(text) = text else {
+        return Ok(IonizationModel::default());
+    };
+    IonizationModel::from_id(text).map_err(|_| {
+        BadInput::new(
+            argument,
+            format!(
+                "{text:?} is not a model bandgauge knows; give one of {}",
+                IonizationModel::ALL.map(IonizationModel::id).join(", ")
+            ),
+        )
+    })
+}
 
 /// Reads a quantity of `kind` in its default unit.
 pub fn quantity(argument: &str, text: &str, kind: QuantityKind) -> Result<f64, BadInput> {

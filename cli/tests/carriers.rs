@@ -3,6 +3,7 @@
 mod support;
 
 use bandgauge_core::intrinsic::IntrinsicModel;
+use bandgauge_core::ionization::IonizationModel;
 use bandgauge_core::materials::{self, DopantDensity, DopantKind};
 use bandgauge_core::neutrality::{self, Equilibrium, SolveOptions};
 use bandgauge_core::sweep;
@@ -457,4 +458,38 @@ fn refused_sweeps() {
     // --sweep replaces --temperature: both at once is a usage error (clap, exit 2).
     let both = refusal("carriers --temperature 300 --sweep 10:1000:5");
     assert!(both.contains("--sweep"), "{both}");
+}
+
+/// Heavy doping where the dopant-level models part: with constant levels 1e19 cm^-3 P is
+/// 38 % ionized at 300 K, with the default (Altermatt et al. 2006) levels most of it is, so
+/// the two electron densities differ by far more than this.
+const LEVEL_MODELS_DIFFER: f64 = 0.2;
+
+#[test]
+fn ionization_model_option_reaches_the_core() {
+    for id in ["altermatt", "pearson-bardeen", "dilute", " Dilute "] {
+        let output = json(&format!(
+            "carriers --donor P:1e19 --ionization-model '{id}' --json"
+        ));
+        let options = SolveOptions {
+            ionization_model: IonizationModel::from_id(id).unwrap(),
+            ..SolveOptions::default()
+        };
+        assert_matches_core(&output, &silicon_state(300.0, &[("P", 1e19)], &options));
+    }
+    // Source: Altermatt et al., J. Appl. Phys. 100, 113714 (2006) against constant Sze 1981
+    // levels: heavy P keeps far fewer carriers neutral with the density-dependent levels.
+    let dilute = json("carriers --donor P:1e19 --ionization-model dilute --json");
+    let default = json("carriers --donor P:1e19 --json");
+    assert!(
+        relative_difference(
+            number(&dilute, "electrons_cm3"),
+            number(&default, "electrons_cm3")
+        ) > LEVEL_MODELS_DIFFER
+    );
+    refused(
+        "carriers --donor P:1e15 --ionization-model hydrogenic",
+        "--ionization-model: \"hydrogenic\" is not a model bandgauge knows; give one of \
+         altermatt, pearson-bardeen, dilute",
+    );
 }

@@ -343,3 +343,29 @@ fn usage_errors_exit_with_code_2() {
     usage_error("convert --dopant B");
     usage_error("convert --resistivity 10");
 }
+
+#[test]
+fn ionization_model_option_reaches_the_physics_models() {
+    let output = json(
+        "convert --dopant P --density 1e19 --model masetti --temperature 300 \
+         --ionization-model dilute --json",
+    );
+    let core = compare::convert(
+        &materials::silicon(),
+        "P",
+        ConversionInput::DensityCm3(1e19),
+        300.0,
+        ConversionModel::Physics(bandgauge_core::mobility::MobilityModel::Masetti),
+        &SolveOptions {
+            ionization_model: bandgauge_core::ionization::IonizationModel::Dilute,
+            ..SolveOptions::default()
+        },
+    )
+    .unwrap();
+    assert_same_as_core(&output, "resistivity_ohm_cm", core.resistivity_ohm_cm);
+    refused(
+        "convert --dopant P --density 1e19 --ionization-model none",
+        "--ionization-model: \"none\" is not a model bandgauge knows; give one of altermatt, \
+         pearson-bardeen, dilute",
+    );
+}

@@ -8,7 +8,8 @@
 //! - [`ConversionInput`]: a resistivity or a density.
 //! - [`convert`]: one model, one answer, as a [`Conversion`].
 //! - [`compare`]: every applicable model, as a [`Comparison`] of [`ModelAnswer`]s with the
-//!   [`Spread`] (largest over smallest).
+//!   [`Spread`] (largest over smallest) over the models that convert doped material (the
+//!   lattice-only mobility, which ignores impurity scattering, is listed but not counted).
 //! - [`ConversionError`]: refusals, naming the field, the value and the allowed range.
 
 use std::fmt;
@@ -386,7 +387,8 @@ pub struct ModelAnswer {
     pub density_cm3: Option<f64>,
     /// Resistivity, ohm cm (`None` when the model refused).
     pub resistivity_ohm_cm: Option<f64>,
-    /// Whether the answer counts in the spread (computed, and at the requested temperature).
+    /// Whether the answer counts in the spread: computed, at the requested temperature, and by a
+    /// model that converts doped material (not the lattice-only mobility).
     pub in_spread: bool,
     /// Why the model refused, if it did.
     pub error: Option<String>,
@@ -442,8 +444,11 @@ pub struct Comparison {
 /// # Validity
 /// The empirical relation is always listed for silicon with B, P, As or Sb, evaluated at 23 C
 /// and labelled so; it counts in the spread only when `temperature_k` is within
-/// [`EMPIRICAL_TEMPERATURE_TOLERANCE_K`] of 23 C. A model that refuses the input (range,
-/// temperature) is listed with its reason and does not count.
+/// [`EMPIRICAL_TEMPERATURE_TOLERANCE_K`] of 23 C. The lattice-only mobility model
+/// ([`MobilityModel::Lattice`]) ignores impurity scattering, so it is not a conversion model for
+/// doped material: it is listed side by side (as the phonon limit) with a remark saying so, and
+/// never counts in the spread. A model that refuses the input (range, temperature) is listed
+/// with its reason and does not count.
 ///
 /// # Errors
 /// [`ConversionError::Dopant`]; [`ConversionError::NoApplicableModel`] when no model covers the
@@ -501,12 +506,20 @@ fn answer(
     } else {
         EMPIRICAL_TEMPERATURE_K
     };
+    let converts_doped = model != ConversionModel::Physics(MobilityModel::Lattice);
     let mut notes = Vec::new();
     if !at_requested {
         notes.push(format!(
             "evaluated at 23 C (296.15 K), where the relation holds; not in the spread at \
              {temperature_k} K"
         ));
+    }
+    if !converts_doped {
+        notes.push(
+            "lattice-only mobility ignores impurity scattering, so it is not a conversion model \
+             for doped material: shown as the phonon limit, not in the spread"
+                .to_string(),
+        );
     }
     match convert(material, dopant, input, evaluated_at, model, solve) {
         Ok(c) => {
@@ -517,7 +530,7 @@ fn answer(
                 temperature_k: c.temperature_k,
                 density_cm3: Some(c.density_cm3),
                 resistivity_ohm_cm: Some(c.resistivity_ohm_cm),
-                in_spread: at_requested,
+                in_spread: at_requested && converts_doped,
                 error: None,
                 notes,
             }

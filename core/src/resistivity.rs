@@ -6,6 +6,9 @@
 //!   [`crate::neutrality::solve`] (Fermi-Dirac, incomplete ionization with the selected
 //!   [`crate::ionization::IonizationModel`]) and the mobilities at the total ionized-impurity
 //!   density; returns a [`ResistivityPoint`] with every intermediate.
+//! - [`resistivity_of_mix`]: the same for any mix of donors and acceptors, one neutrality solve,
+//!   mobility at N_D+ + N_A- with the parameter set of the species [`mobility_species`] picks;
+//!   returns a [`MixResistivity`].
 //! - [`density_from_resistivity`]: the inverse for one dopant, by bracketed Brent iteration in
 //!   ln N; the round trip rho -> N -> rho agrees to 1e-9 relative (checked before returning).
 //! - [`reachable_range`]: the lowest and highest resistivity the model can give for a dopant at
@@ -20,7 +23,7 @@ use crate::constants::ELEMENTARY_CHARGE_C;
 use crate::ionization::IonizationModel;
 use crate::materials::{Dopant, DopantDensity, DopantKind, Material, MaterialError};
 use crate::mobility::{self, ConductivityType, MobilityError, MobilityModel};
-use crate::neutrality::{self, CarrierError, Equilibrium, Regime, SolveOptions};
+use crate::neutrality::{self, CarrierError, Equilibrium, ModelUsed, Regime, SolveOptions};
 
 /// Relative agreement guaranteed for the round trip rho -> N -> rho.
 pub const ROUND_TRIP_TOLERANCE: f64 = 1e-9;
@@ -176,6 +179,12 @@ pub enum ResistivityError {
         /// The ionization model with the step.
         model: &'static str,
     },
+    /// No species can carry the mobility parameter set: nothing listed and the material has no
+    /// donor.
+    NoMobilitySpecies {
+        /// Material id.
+        material_id: String,
+    },
     /// The search did not meet the round-trip tolerance (not expected; please report).
     NotConverged {
         /// Target resistivity, ohm cm.
@@ -236,6 +245,11 @@ impl fmt::Display for ResistivityError {
                  the model gives {below_step_ohm_cm:.4e} ohm cm just below that density and \
                  {above_step_ohm_cm:.4e} just above, nothing between; give a value outside that \
                  gap or choose the dilute ionization model"
+            ),
+            ResistivityError::NoMobilitySpecies { material_id } => write!(
+                f,
+                "doping: no species listed and material {material_id} has no donor whose \
+                 mobility parameters could be used; list at least one dopant"
             ),
             ResistivityError::NotConverged {
                 value_ohm_cm,
@@ -535,6 +549,173 @@ pub fn resistivity_from_density(
     }
     let mut c = Conversion::new(material, dopant_symbol, temperature_k, options)?;
     c.point(density_cm3)
+}
+
+/// Resistivity, carriers and mobilities of a sample with any mix of dopants.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MixResistivity {
+    /// Material id.
+    pub material_id: String,
+    /// Temperature, K.
+    pub temperature_k: f64,
+    /// n when n >= p, else p (the majority carrier).
+    #[serde(rename = "type")]
+    pub conductivity_type: ConductivityType,
+    /// Free electrons, cm^-3.
+    pub electrons_cm3: f64,
+    /// Free holes, cm^-3.
+    pub holes_cm3: f64,
+    /// Ionized dopants N_D+ + N_A-, cm^-3 (the density the mobility is evaluated at).
+    pub ionized_impurity_cm3: f64,
+    /// Electron mobility, cm^2/V s.
+    pub electron_mobility_cm2_per_v_s: f64,
+    /// Hole mobility, cm^2/V s.
+    pub hole_mobility_cm2_per_v_s: f64,
+    /// Resistivity, ohm cm.
+    pub resistivity_ohm_cm: f64,
+    /// Mobility model used.
+    pub mobility_model: MobilityModel,
+    /// The species whose parameter sets were used (see [`mobility_species`]).
+    pub mobility_species: String,
+    /// Parameter sets used (electrons, holes).
+    pub mobility_parameters: [&'static str; 2],
+    /// Conduction regime from the neutrality solve.
+    pub regime: Regime,
+    /// Fermi level within 3 kT of a band edge or beyond.
+    pub degenerate: bool,
+    /// Every model and parameter source the result depends on: those of the neutrality solve,
+    /// then the mobility model with its parameter sets.
+    pub models: Vec<ModelUsed>,
+    /// Extensions, substitutions and range remarks of the mobility model.
+    pub notes: Vec<String>,
+}
+
+/// The species whose mobility parameter sets apply to a mix of dopants.
+///
+/// # Rule
+/// Impurity scattering is summed over all ionized species (the mobility is evaluated at
+/// N_D+ + N_A-), but the dopant-specific sets (Masetti's As, P and B sets) need one species:
+/// 1. the most abundant listed species of the majority carrier's kind (donors when
+///    `conductivity_type` is n, acceptors when p), zero densities included, the first listed on
+///    a tie;
+/// 2. else the most abundant listed species of any kind (the first listed on a tie);
+/// 3. else (nothing listed) the material's first donor.
+///
+/// A single listed species is therefore always its own choice, whatever its density, which
+/// keeps [`resistivity_of_mix`] equal to [`resistivity_from_density`] for one dopant. Choosing
+/// the majority kind follows the model's fits: each set describes its carrier as the majority
+/// carrier of the doped sample (Masetti et al. 1983, Table I). `None` only for a material
+/// without donors and without listed species.
+pub fn mobility_species(
+    material: &Material,
+    doping: &[DopantDensity],
+    conductivity_type: ConductivityType,
+) -> Option<Dopant> {
+    let majority = match conductivity_type {
+        ConductivityType::N => DopantKind::Donor,
+        ConductivityType::P => DopantKind::Acceptor,
+    };
+    let most_abundant = |kind: Option<DopantKind>| {
+        doping
+            .iter()
+            .filter(|d| kind.is_none_or(|k| d.dopant.kind == k))
+            .fold(None::<&DopantDensity>, |best, d| match best {
+                Some(b) if b.density_cm3 >= d.density_cm3 => Some(b),
+                _ => Some(d),
+            })
+            .map(|d| d.dopant.clone())
+    };
+    most_abundant(Some(majority))
+        .or_else(|| most_abundant(None))
+        .or_else(|| {
+            material
+                .dopants
+                .iter()
+                .find(|d| d.kind == DopantKind::Donor)
+                .cloned()
+        })
+}
+
+/// Resistivity of `material` with any mix of dopants `doping` at `temperature_k`.
+///
+/// # Formula
+/// rho = 1 / (q (n mu_n + p mu_p)); n, p from one charge-neutrality solve over every species
+/// ([`crate::neutrality::solve`], Fermi-Dirac statistics, incomplete ionization); mu_n, mu_p
+/// from `options.mobility` at the total ionized-impurity density N_I = N_D+ + N_A-, with the
+/// parameter sets of the species that [`mobility_species`] picks (the majority kind's most
+/// abundant species). q in C, n, p in cm^-3, mu in cm^2/V s. Compensating dopants lower the
+/// carriers (n - p = N_D+ - N_A-) and also the mobility (both kinds scatter).
+///
+/// # Validity
+/// As [`resistivity_from_density`], with the mobility model's density limit applied to N_I.
+/// Mobility models fitted to singly doped silicon are used for compensated material on the
+/// usual assumption that ionized donors and acceptors scatter alike (Matthiessen-type sum over
+/// N_I); the parameter set of the minority kind's species is not used.
+///
+/// # References
+/// Carrier statistics: see [`crate::neutrality`]; mobility: [`MobilityModel::reference`].
+///
+/// # Errors
+/// [`ResistivityError::Carriers`] (temperature, densities, species of another material),
+/// [`ResistivityError::Mobility`] (model not applicable to the chosen species, N_I or T out of
+/// range), [`ResistivityError::NoMobilitySpecies`] when no species can carry a parameter set.
+pub fn resistivity_of_mix(
+    material: &Material,
+    temperature_k: f64,
+    doping: &[DopantDensity],
+    options: &PhysicsOptions,
+) -> Result<MixResistivity, ResistivityError> {
+    let eq = neutrality::solve(material, temperature_k, doping, &options.solve)?;
+    let conductivity_type = if eq.electrons_cm3 >= eq.holes_cm3 {
+        ConductivityType::N
+    } else {
+        ConductivityType::P
+    };
+    let species = mobility_species(material, doping, conductivity_type).ok_or_else(|| {
+        ResistivityError::NoMobilitySpecies {
+            material_id: material.id.clone(),
+        }
+    })?;
+    let ionized = eq.ionized_donors_cm3 + eq.ionized_acceptors_cm3;
+    let mu = mobility::mobility(
+        options.mobility,
+        &material.id,
+        &species.symbol,
+        ionized,
+        temperature_k,
+    )?;
+    let sigma = ELEMENTARY_CHARGE_C
+        * (eq.electrons_cm3 * mu.electrons_cm2_per_v_s + eq.holes_cm3 * mu.holes_cm2_per_v_s);
+    let mut models = eq.models;
+    models.push(ModelUsed {
+        quantity: "mobility".into(),
+        model: format!(
+            "{} ({}; {}) at N_D+ + N_A-",
+            options.mobility.name(),
+            mu.electron_parameters,
+            mu.hole_parameters
+        )
+        .into(),
+        source: options.mobility.reference().into(),
+    });
+    Ok(MixResistivity {
+        material_id: material.id.clone(),
+        temperature_k,
+        conductivity_type,
+        electrons_cm3: eq.electrons_cm3,
+        holes_cm3: eq.holes_cm3,
+        ionized_impurity_cm3: ionized,
+        electron_mobility_cm2_per_v_s: mu.electrons_cm2_per_v_s,
+        hole_mobility_cm2_per_v_s: mu.holes_cm2_per_v_s,
+        resistivity_ohm_cm: 1.0 / sigma,
+        mobility_model: options.mobility,
+        mobility_species: species.symbol,
+        mobility_parameters: [mu.electron_parameters, mu.hole_parameters],
+        regime: eq.regime,
+        degenerate: eq.degenerate,
+        models,
+        notes: mu.notes,
+    })
 }
 
 /// Dopant density of `dopant_symbol` that gives `resistivity_ohm_cm` at `temperature_k`.

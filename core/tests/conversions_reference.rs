@@ -4,7 +4,7 @@
 use bandgauge_core::compare::{self, ConversionInput, ConversionModel};
 use bandgauge_core::empirical::{self, EmpiricalRelation};
 use bandgauge_core::ionization::IonizationModel;
-use bandgauge_core::materials;
+use bandgauge_core::materials::{self, DopantDensity};
 use bandgauge_core::mobility::{
     self, ARORA_ELECTRONS, ARORA_HOLES, CaugheyThomasParameters, MASETTI_ELECTRONS_ARSENIC,
     MASETTI_ELECTRONS_PHOSPHORUS, MASETTI_HOLES_BORON, MasettiParameters, MobilityModel,
@@ -415,6 +415,146 @@ fn a_value_in_the_pearson_bardeen_step_is_refused_by_name() {
     }
 }
 
+/// Compensated 1e16 P + 5e15 B at 300 K: the Sze levels (P 45 meV) leave about 0.2 % of the P
+/// neutral at n = 5e15 cm^-3 (dilute occupancy 1/(1 + 2 n/Nc exp(E_D/kT))), so n and N_I stay
+/// within 0.5 % of their complete-ionization values; 1 % leaves room for the level model.
+const COMPENSATED_CARRIERS: f64 = 1e-2;
+/// The Masetti mobility at N_I 0.5 % below 1.5e16 cm^-3 differs by under 0.1 % (d ln mu / d ln N
+/// is about -0.14 there), so 0.3 % covers the ionization and the formula evaluation.
+const COMPENSATED_MOBILITY: f64 = 3e-3;
+
+#[test]
+fn compensated_silicon_resistivity_uses_both_kinds_of_impurity() {
+    // Source: Masetti, Severi, Solmi, IEEE Trans. Electron Devices 30, 764 (1983), eq. and
+    // Table I (P set for electrons, B set for holes) at N_I = 1.5e16 cm^-3, published formula
+    // evaluated (Python, double precision): mu_n = 1123.47, mu_p = 411.513 cm^2/V s.
+    // Compensation n = N_D - N_A = 5e15 cm^-3: common practice, no source.
+    // rho = 1/(q n mu_n) = 1/(1.602176634e-19 * 5e15 * 1123.47) = 1.11111 ohm cm (CODATA 2018 q).
+    let si = materials::silicon();
+    let doping = vec![
+        DopantDensity {
+            dopant: si.dopant("P").unwrap(),
+            density_cm3: 1e16,
+        },
+        DopantDensity {
+            dopant: si.dopant("B").unwrap(),
+            density_cm3: 5e15,
+        },
+    ];
+    let options = PhysicsOptions::with_mobility(MobilityModel::Masetti);
+    let mix = resistivity::resistivity_of_mix(&si, 300.0, &doping, &options).unwrap();
+    check(
+        "compensated n",
+        mix.electrons_cm3,
+        5e15,
+        COMPENSATED_CARRIERS,
+    );
+    check(
+        "compensated N_I",
+        mix.ionized_impurity_cm3,
+        1.5e16,
+        COMPENSATED_CARRIERS,
+    );
+    check(
+        "compensated mu_n",
+        mix.electron_mobility_cm2_per_v_s,
+        1123.47,
+        COMPENSATED_MOBILITY,
+    );
+    check(
+        "compensated mu_p",
+        mix.hole_mobility_cm2_per_v_s,
+        411.513,
+        COMPENSATED_MOBILITY,
+    );
+    check(
+        "compensated rho",
+        mix.resistivity_ohm_cm,
+        1.11111,
+        COMPENSATED_CARRIERS,
+    );
+    assert_eq!(mix.mobility_species, "P");
+    assert_eq!(
+        mix.mobility_parameters[0],
+        MASETTI_ELECTRONS_PHOSPHORUS.label
+    );
+    assert_eq!(mix.mobility_parameters[1], MASETTI_HOLES_BORON.label);
+    assert!(
+        mix.models.iter().any(|m| m.quantity == "mobility"),
+        "{:?}",
+        mix.models
+    );
+    // The same net doping without compensation: 5e15 P alone scatters less and conducts better.
+    let plain = resistivity::resistivity_from_density(&si, "P", 5e15, 300.0, &options).unwrap();
+    assert!(plain.resistivity_ohm_cm < mix.resistivity_ohm_cm);
+    // Majority holes: the acceptor set and species are chosen.
+    let p_type = [
+        DopantDensity {
+            dopant: si.dopant("As").unwrap(),
+            density_cm3: 1e15,
+        },
+        DopantDensity {
+            dopant: si.dopant("B").unwrap(),
+            density_cm3: 1e16,
+        },
+    ];
+    let mix = resistivity::resistivity_of_mix(&si, 300.0, &p_type, &options).unwrap();
+    assert_eq!(mix.mobility_species, "B");
+    assert!(mix.holes_cm3 > mix.electrons_cm3);
+}
+
+#[test]
+fn one_dopant_mix_equals_the_single_dopant_conversion() {
+    let si = materials::silicon();
+    for model in [MobilityModel::Masetti, MobilityModel::Arora] {
+        for ionization in IonizationModel::ALL {
+            let options = PhysicsOptions {
+                mobility: model,
+                solve: SolveOptions {
+                    ionization_model: ionization,
+                    ..Default::default()
+                },
+            };
+            for dopant in ["P", "As", "B"] {
+                for (n, t) in [(0.0, 300.0), (1e14, 250.0), (3e17, 300.0), (2e19, 400.0)] {
+                    let one =
+                        resistivity::resistivity_from_density(&si, dopant, n, t, &options).unwrap();
+                    let doping = [DopantDensity {
+                        dopant: si.dopant(dopant).unwrap(),
+                        density_cm3: n,
+                    }];
+                    let mix = resistivity::resistivity_of_mix(&si, t, &doping, &options).unwrap();
+                    let what = format!("{model} {ionization} {dopant} {n:e} {t}");
+                    assert_eq!(mix.resistivity_ohm_cm, one.resistivity_ohm_cm, "{what}");
+                    assert_eq!(mix.electrons_cm3, one.electrons_cm3, "{what}");
+                    assert_eq!(mix.holes_cm3, one.holes_cm3, "{what}");
+                    assert_eq!(
+                        [
+                            mix.electron_mobility_cm2_per_v_s,
+                            mix.hole_mobility_cm2_per_v_s
+                        ],
+                        [
+                            one.electron_mobility_cm2_per_v_s,
+                            one.hole_mobility_cm2_per_v_s
+                        ],
+                        "{what}"
+                    );
+                    assert_eq!(mix.mobility_parameters, one.mobility_parameters, "{what}");
+                    assert_eq!(mix.mobility_species, dopant, "{what}");
+                }
+            }
+        }
+    }
+    // A mobility model without parameters for the chosen species is refused by name.
+    let gallium = [DopantDensity {
+        dopant: si.dopant("Ga").unwrap(),
+        density_cm3: 1e16,
+    }];
+    let masetti = PhysicsOptions::with_mobility(MobilityModel::Masetti);
+    let err = resistivity::resistivity_of_mix(&si, 300.0, &gallium, &masetti).unwrap_err();
+    assert!(err.to_string().contains("Ga"), "{err}");
+}
+
 #[test]
 fn physics_inversion_names_the_reachable_limits() {
     let si = materials::silicon();
@@ -461,6 +601,41 @@ fn comparison_lists_every_applicable_model_with_the_spread() {
     assert!(
         spread.ratio >= 1.0 && spread.ratio < 1.0 + PHYSICS_VS_TABLE,
         "{spread:?}"
+    );
+    // Where the lattice-only model answers (lightly doped, 1e13 cm^-3 P), it is listed with its
+    // remark but left out of the spread: it ignores impurity scattering.
+    let light = compare::compare(
+        &si,
+        "P",
+        ConversionInput::DensityCm3(1e13),
+        300.0,
+        &SolveOptions::default(),
+    )
+    .unwrap();
+    let lattice = light
+        .answers
+        .iter()
+        .find(|a| a.model == ConversionModel::Physics(MobilityModel::Lattice))
+        .unwrap();
+    assert!(lattice.resistivity_ohm_cm.is_some(), "{lattice:?}");
+    assert!(!lattice.in_spread);
+    assert!(
+        lattice
+            .notes
+            .iter()
+            .any(|n| n.contains("ignores impurity scattering")),
+        "{:?}",
+        lattice.notes
+    );
+    let light_spread = light.spread.unwrap();
+    assert_eq!(light_spread.models, 2, "{light_spread:?}");
+    assert_ne!(
+        light_spread.lowest_model,
+        ConversionModel::Physics(MobilityModel::Lattice)
+    );
+    assert_ne!(
+        light_spread.highest_model,
+        ConversionModel::Physics(MobilityModel::Lattice)
     );
     // Away from 23 C the empirical relation is listed at 23 C but not counted.
     let warm = compare::compare(
