@@ -40,9 +40,7 @@ pub fn NumberField(
     } else {
         format!("{hint_id} {message_id}")
     };
-    let label_text = row
-        .map(|r| format!("{label}, row {r}"))
-        .unwrap_or_else(|| label.to_string());
+    let label_text = row_label(label, row);
     view! {
         <div class="field" class:invalid=move || error.with(Option::is_some)>
             <label for=id.clone() class:sr-only=hide_label>{label_text}</label>
@@ -64,6 +62,12 @@ pub fn NumberField(
             </span>
         </div>
     }
+}
+
+/// A field label, with its row number when the field belongs to a numbered row.
+fn row_label(label: &str, row: Option<usize>) -> String {
+    row.map(|r| format!("{label}, row {r}"))
+        .unwrap_or_else(|| label.to_string())
 }
 
 /// One `<option>` of a select: value and visible text.
@@ -95,9 +99,7 @@ pub fn SelectField(
 ) -> impl IntoView {
     let error = error.unwrap_or_else(|| Signal::derive(|| None));
     let message_id = format!("{id}-error");
-    let label_text = row
-        .map(|r| format!("{label}, row {r}"))
-        .unwrap_or_else(|| label.to_string());
+    let label_text = row_label(label, row);
     view! {
         <div class="field" class:invalid=move || error.with(Option::is_some)>
             <label for=id.clone() class:sr-only=hide_label>{label_text}</label>
