@@ -15,39 +15,45 @@ const PYTHON_SCRIPT: &str = "core/benches/python/neutrality_scipy.py";
 pub fn run(_args: &[String]) -> Result<(), String> {
     shell::run(shell::cargo().args(["bench", "-p", "bandgauge-core"]))?;
     let dir = root().join("target").join("criterion");
-    let mut rows = Vec::new();
-    collect(&dir, &mut rows);
-    rows.sort_by(|a, b| a.0.cmp(&b.0));
-    println!();
-    println!("{:<56} {:>14}", "benchmark (median)", "time");
-    for (name, median_ns) in &rows {
-        println!("{name:<56} {:>14}", format_ns(*median_ns));
-    }
-    let solve_ns = rows
+    let mut medians = Vec::new();
+    collect(&dir, &mut medians);
+    medians.sort_by(|a, b| a.0.cmp(&b.0));
+    let mut table: Vec<(String, String)> = medians
+        .iter()
+        .map(|(name, ns)| (name.clone(), format_ns(*ns)))
+        .collect();
+    let solve_ns = medians
         .iter()
         .find(|(n, _)| n == SOLVE_BENCH)
         .map(|(_, ns)| *ns);
     match (python_us_per_solve(), solve_ns) {
         (Ok(py_us), Some(ns)) => {
-            println!(
-                "{:<56} {:>14}",
-                "python scipy brentq, same problem",
-                format_ns(py_us * 1e3)
-            );
-            println!(
-                "{:<56} {:>13.0}x",
-                "speed ratio python / bandgauge",
-                py_us * 1e3 / ns
-            );
+            table.push((
+                "python scipy brentq, same problem".into(),
+                format_ns(py_us * 1e3),
+            ));
+            table.push((
+                "speed ratio python / bandgauge".into(),
+                format!("{:.0}x", py_us * 1e3 / ns),
+            ));
         }
-        (Err(e), _) => println!("python comparison not run: {e}"),
-        (_, None) => println!("python comparison not run: no criterion result named {SOLVE_BENCH}"),
+        (Err(e), _) => table.push(("python comparison".into(), format!("not run: {e}"))),
+        (_, None) => table.push((
+            "python comparison".into(),
+            format!("not run: no criterion result named {SOLVE_BENCH}"),
+        )),
     }
-    browser_rows()
+    let browser = browser_rows(&mut table);
+    println!();
+    println!("{:<56} {:>14}", "benchmark (median)", "time");
+    for (name, value) in &table {
+        println!("{name:<56} {value:>14}");
+    }
+    browser
 }
 
 /// Release build, its wasm size raw and gzipped, and the in-browser redraw medians.
-fn browser_rows() -> Result<(), String> {
+fn browser_rows(table: &mut Vec<(String, String)>) -> Result<(), String> {
     crate::tools::ensure_build_tools()?;
     crate::tools::ensure_chromium()?;
     let dist = crate::dist::build_release()?;
@@ -55,16 +61,14 @@ fn browser_rows() -> Result<(), String> {
         let bytes =
             std::fs::read(&wasm).map_err(|e| format!("cannot read {}: {e}", wasm.display()))?;
         let gz = gzip_len(&bytes)?;
-        println!(
-            "{:<56} {:>11.0} KB",
-            "release wasm, raw",
-            bytes.len() as f64 / 1024.0
-        );
-        println!(
-            "{:<56} {:>11.0} KB",
-            "release wasm, gzip -9",
-            gz as f64 / 1024.0
-        );
+        table.push((
+            "release wasm, raw".into(),
+            format!("{:.0} KB", bytes.len() as f64 / 1024.0),
+        ));
+        table.push((
+            "release wasm, gzip -9".into(),
+            format!("{:.0} KB", gz as f64 / 1024.0),
+        ));
     }
     let out = shell::capture(
         shell::cargo()
@@ -88,7 +92,7 @@ fn browser_rows() -> Result<(), String> {
                 "browser: input to charts redrawn, {}",
                 view.trim_end_matches("_ms")
             );
-            println!("{label:<56} {:>14}", format_ns(ms * 1e6));
+            table.push((label, format_ns(ms * 1e6)));
         }
     }
     if !any {
