@@ -21,7 +21,7 @@ use crate::Bench;
 use crate::browser;
 use crate::chart::{Axis, ChartSpec, Color, Corner, Mark, Series, palette};
 use crate::format;
-use crate::widgets::ChartPanel;
+use crate::widgets::{Caution, ChartPanel};
 
 /// Bytes read per step: the page handles events between steps, so it never freezes.
 pub const CHUNK_BYTES: usize = 256 * 1024;
@@ -1042,6 +1042,14 @@ pub fn LotsView(
                             }
                         }}
                     </ul>
+                    <Caution models=Signal::derive(move || report.with(|r| vec![
+                        ("resistivity to dopant density".to_string(), r.model.clone(), r.model_reference.to_string()),
+                        (
+                            "lot statistics".to_string(),
+                            "Welch's t-test on ln density, Kruskal-Wallis, Cpk".to_string(),
+                            "Welch 1947; Kruskal & Wallis 1952; Cpk common practice".to_string(),
+                        ),
+                    ])) />
                 </div>
                 <div class="lots-charts">
                     <ChartPanel id="lots-chart" spec=chart layout=bench.layout input_at=bench.input_at />

@@ -307,6 +307,15 @@ async fn demo_lots_show_the_scenario_verdicts_and_rejected_lines() {
                 "rejected row shown as '{text}'"
             );
         }
+        // The results carry the caution and name the conversion model and its source
+        // (project rule: values are model estimates; the fab's specifications decide).
+        let caution = text_of(&client, "caution").await;
+        assert!(
+            caution.contains("Model estimates")
+                && caution.contains("specifications")
+                && caution.contains("Thurber"),
+            "caution shown as '{caution}'"
+        );
         screenshot(&client, "lots-demo-1366").await;
         scroll_to(&client, "lots-chart").await;
         screenshot(&client, "lots-demo-1366-chart").await;
