@@ -178,8 +178,13 @@ pub fn evaluate(request: &Request) -> Result<Outcome, String> {
             mobility: model,
             solve: r.options.clone(),
         };
-        resistivity::resistivity_of_mix(&r.material, r.temperature_k, &r.doping, &options)
-            .map_err(|e| e.to_string())
+        resistivity::resistivity_of_equilibrium(
+            &r.material,
+            &r.doping,
+            equilibrium.clone(),
+            &options,
+        )
+        .map_err(|e| e.to_string())
     });
     let sheet_ohm_sq = transport.as_ref().map_err(Clone::clone).and_then(|t| {
         probe::sheet_resistance_ohm_sq(t.resistivity_ohm_cm, r.thickness_cm)

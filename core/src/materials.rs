@@ -606,7 +606,7 @@ pub fn germanium() -> Material {
 /// Gallium arsenide (direct Gamma gap).
 pub fn gallium_arsenide() -> Material {
     use DopantKind::{Acceptor, Donor};
-    const ACCEPTORS: &str = "Sze1981: measured ionization energies in GaAs (Sze, Physics of \
+    const DOPANT_LEVELS: &str = "Sze1981: measured ionization energies in GaAs (Sze, Physics of \
                              Semiconductor Devices, 2nd ed., 1981, ch. 1) (from memory); \
                              g: common practice";
     Material {
@@ -633,12 +633,12 @@ pub fn gallium_arsenide() -> Material {
         dopants: vec![
             // Source: Sze 1981, ch. 1, GaAs (from memory): Si on a Ga site 5.8 meV,
             // Te 5.8 meV (shallow hydrogen-like donors); C 26, Be 28, Mg 28, Zn 31 meV.
-            dopant("Si", Donor, 5.8, ACCEPTORS),
-            dopant("Te", Donor, 5.8, ACCEPTORS),
-            dopant("C", Acceptor, 26.0, ACCEPTORS),
-            dopant("Be", Acceptor, 28.0, ACCEPTORS),
-            dopant("Mg", Acceptor, 28.0, ACCEPTORS),
-            dopant("Zn", Acceptor, 31.0, ACCEPTORS),
+            dopant("Si", Donor, 5.8, DOPANT_LEVELS),
+            dopant("Te", Donor, 5.8, DOPANT_LEVELS),
+            dopant("C", Acceptor, 26.0, DOPANT_LEVELS),
+            dopant("Be", Acceptor, 28.0, DOPANT_LEVELS),
+            dopant("Mg", Acceptor, 28.0, DOPANT_LEVELS),
+            dopant("Zn", Acceptor, 31.0, DOPANT_LEVELS),
         ],
         sources: MaterialSources {
             band_gap: "Vurgaftman2001: Vurgaftman, Meyer, Ram-Mohan, J. Appl. Phys. 89, 5815 \

@@ -666,6 +666,24 @@ pub fn resistivity_of_mix(
     options: &PhysicsOptions,
 ) -> Result<MixResistivity, ResistivityError> {
     let eq = neutrality::solve(material, temperature_k, doping, &options.solve)?;
+    resistivity_of_equilibrium(material, doping, eq, options)
+}
+
+/// [`resistivity_of_mix`] for a sample whose neutrality solve the caller already has, so that a
+/// view showing both the carriers and the resistivity solves once.
+///
+/// `equilibrium` must come from [`neutrality::solve`] with `material`, `doping` and
+/// `options.solve`; its temperature is used.
+///
+/// # Errors
+/// As [`resistivity_of_mix`], less the carrier errors.
+pub fn resistivity_of_equilibrium(
+    material: &Material,
+    doping: &[DopantDensity],
+    eq: Equilibrium,
+    options: &PhysicsOptions,
+) -> Result<MixResistivity, ResistivityError> {
+    let temperature_k = eq.temperature_k;
     let conductivity_type = if eq.electrons_cm3 >= eq.holes_cm3 {
         ConductivityType::N
     } else {

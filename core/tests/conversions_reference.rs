@@ -443,6 +443,11 @@ fn compensated_silicon_resistivity_uses_both_kinds_of_impurity() {
     ];
     let options = PhysicsOptions::with_mobility(MobilityModel::Masetti);
     let mix = resistivity::resistivity_of_mix(&si, 300.0, &doping, &options).unwrap();
+    // Reusing a caller's own solve gives the identical result (common practice, no source:
+    // the same computation split in two).
+    let solved = bandgauge_core::neutrality::solve(&si, 300.0, &doping, &options.solve).unwrap();
+    let reused = resistivity::resistivity_of_equilibrium(&si, &doping, solved, &options).unwrap();
+    assert_eq!(reused, mix);
     check(
         "compensated n",
         mix.electrons_cm3,
