@@ -1,5 +1,9 @@
 //! `bandgauge lots` on the demo lots: JSON keys and verdicts, rejected rows on stderr with file
 //! and line, exit codes 0 / 3 / 2, the `--rows` export, and statistics recomputed here.
+//!
+//! Check values: verdicts, wafer and site counts and rejected lines are those of the invented
+//! demo scenario (`demo-wafers/README.md`, invented data, no published source); statistics are
+//! recomputed here from the `--rows` export; exit codes are the CLI's documented contract.
 
 mod support;
 

@@ -1,5 +1,9 @@
 //! The lot-file reader: every accepted file form, every kind of bad row with its line and
 //! column, file-level refusals, chunked input, and counts that always add up.
+//!
+//! Check values are the numbers written into each small test file and read back (parser echoes,
+//! invented data, no published source); conversions are compared with the empirical relation's
+//! own functions in the core.
 
 use bandgauge_core::empirical::EmpiricalRelation;
 use bandgauge_core::lots::{
