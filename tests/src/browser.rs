@@ -68,11 +68,15 @@ pub struct StaticServer {
 }
 
 impl StaticServer {
-    /// Serves `root` on a free loopback port.
+    /// Serves `root` on a free loopback port. The socket is bound to port 0 and kept,
+    /// so no other test can take the port between choosing and binding it.
     pub fn start(root: &Path) -> StaticServer {
-        let port = free_port();
-        let server =
-            Arc::new(tiny_http::Server::http(("127.0.0.1", port)).expect("bind static server"));
+        let server = Arc::new(tiny_http::Server::http("127.0.0.1:0").expect("bind static server"));
+        let port = server
+            .server_addr()
+            .to_ip()
+            .expect("a TCP listening address")
+            .port();
         let requests = Arc::new(std::sync::Mutex::new(Vec::new()));
         let (srv, root, log) = (server.clone(), root.to_path_buf(), requests.clone());
         let thread = std::thread::spawn(move || {
@@ -128,28 +132,56 @@ struct Driver {
 }
 
 impl Driver {
+    /// Starts chromedriver on a free port. Chromedriver must pick up the port after we
+    /// release it, so another process can win the race: then chromedriver exits and we
+    /// try again on a new port (up to five times).
     fn start() -> Driver {
-        let port = free_port();
         let binary =
             std::env::var("CHROMEDRIVER").unwrap_or_else(|_| "/usr/bin/chromedriver".into());
-        let child = Command::new(&binary)
-            .arg(format!("--port={port}"))
-            .stdout(Stdio::null())
-            .stderr(Stdio::null())
-            .spawn()
-            .unwrap_or_else(|e| {
-                panic!("cannot start {binary}: {e} (cargo xtask test installs it)")
-            });
-        let deadline = Instant::now() + Duration::from_secs(20);
-        while std::net::TcpStream::connect(("127.0.0.1", port)).is_err() {
-            assert!(
-                Instant::now() < deadline,
-                "chromedriver did not listen on port {port}"
-            );
-            std::thread::sleep(Duration::from_millis(50));
+        for _attempt in 0..5 {
+            let port = free_port();
+            let mut child = Command::new(&binary)
+                .arg(format!("--port={port}"))
+                .stdout(Stdio::null())
+                .stderr(Stdio::null())
+                .spawn()
+                .unwrap_or_else(|e| {
+                    panic!("cannot start {binary}: {e} (cargo xtask test installs it)")
+                });
+            let deadline = Instant::now() + Duration::from_secs(20);
+            loop {
+                if let Ok(Some(_)) = child.try_wait() {
+                    break; // exited: most likely the port was taken; retry
+                }
+                if driver_answers(port) {
+                    return Driver { child, port };
+                }
+                assert!(
+                    Instant::now() < deadline,
+                    "chromedriver did not listen on port {port}"
+                );
+                std::thread::sleep(Duration::from_millis(50));
+            }
         }
-        Driver { child, port }
+        panic!("chromedriver could not start on any of five free ports");
     }
+}
+
+/// True when a WebDriver server (not some other listener) answers `GET /status` on `port`.
+fn driver_answers(port: u16) -> bool {
+    use std::io::{Read, Write};
+    let Ok(mut stream) = std::net::TcpStream::connect(("127.0.0.1", port)) else {
+        return false;
+    };
+    let _ = stream.set_read_timeout(Some(Duration::from_secs(2)));
+    let request =
+        format!("GET /status HTTP/1.1\r\nHost: 127.0.0.1:{port}\r\nConnection: close\r\n\r\n");
+    if stream.write_all(request.as_bytes()).is_err() {
+        return false;
+    }
+    let mut reply = String::new();
+    let _ = stream.read_to_string(&mut reply);
+    reply.contains("\"ready\"")
 }
 
 impl Drop for Driver {
