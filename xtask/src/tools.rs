@@ -195,6 +195,33 @@ pub fn trunk() -> Command {
     let mut cmd = Command::new(cargo_bin_dir().join("trunk"));
     cmd.current_dir(root())
         .env("PATH", tool_path())
-        .env("TRUNK_SKIP_VERSION_CHECK", "true");
+        .env("TRUNK_SKIP_VERSION_CHECK", "true")
+        .env("BANDGAUGE_BUILD_COMMIT", build_commit());
     cmd
+}
+
+/// The commit the app is built from, as the report prints it: the short hash, with
+/// `-modified` when the work tree has uncommitted changes, or `unknown` outside git.
+pub fn build_commit() -> String {
+    let git = |args: &[&str]| {
+        Command::new("git")
+            .args(args)
+            .current_dir(root())
+            .output()
+            .ok()
+            .filter(|o| o.status.success())
+            .map(|o| String::from_utf8_lossy(&o.stdout).trim().to_string())
+    };
+    match git(&["rev-parse", "--short=12", "HEAD"]) {
+        Some(hash) if !hash.is_empty() => {
+            let dirty = git(&["status", "--porcelain", "--untracked-files=no"])
+                .is_some_and(|s| !s.is_empty());
+            if dirty {
+                format!("{hash}-modified")
+            } else {
+                hash
+            }
+        }
+        _ => "unknown".to_string(),
+    }
 }
