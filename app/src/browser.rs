@@ -1,5 +1,6 @@
 //! The page's dealings with the browser: the address bar, saved inputs, drawing a chart
-//! on a `<canvas>`, file downloads and timing. Everything else in the app is plain Rust.
+//! on a `<canvas>`, file downloads, timing and the offline worker. Everything else in the
+//! app is plain Rust (the panic panel, `crash_panel`, builds its own DOM).
 
 use crate::chart::{self, ChartSpec};
 use plotters::prelude::IntoDrawingArea;
@@ -44,6 +45,75 @@ pub fn save(text: &str) {
     if let Some(s) = storage() {
         let _ = s.set_item(STORAGE_KEY, text);
     }
+}
+
+/// Removes the saved inputs from this browser's storage (nothing else of the page's is
+/// stored there). Missing storage means there is nothing to remove.
+pub fn forget_saved() {
+    if let Some(s) = storage() {
+        let _ = s.remove_item(STORAGE_KEY);
+    }
+}
+
+/// Reloads the page as it is, inputs in the address included.
+pub fn reload() {
+    if let Some(w) = window() {
+        let _ = w.location().reload();
+    }
+}
+
+/// Opens the page again without the inputs in its address (replacing the history entry,
+/// so Back does not return to the inputs that were left behind).
+pub fn open_without_inputs() {
+    if let Some(location) = window().map(|w| w.location()) {
+        let path = location.pathname().unwrap_or_else(|_| "./".into());
+        let _ = location.replace(&path);
+    }
+}
+
+/// Registers the offline worker (`sw.js`, see `public/sw.js`) when the page is served over
+/// http(s) from the folder build. Not from disk (`file://` has no service workers) and not
+/// from the single-file build (its page says so in a `<meta name="bandgauge-delivery">`).
+/// A browser without service workers, or a registration that fails, only loses offline use:
+/// nothing is shown, one line goes to the console.
+pub fn register_offline_worker() {
+    let Some(w) = window() else {
+        return;
+    };
+    let protocol = w.location().protocol().unwrap_or_default();
+    if protocol != "http:" && protocol != "https:" {
+        return;
+    }
+    let single_file = w
+        .document()
+        .and_then(|d| {
+            d.query_selector("meta[name=\"bandgauge-delivery\"][content=\"single-file\"]")
+                .ok()
+                .flatten()
+        })
+        .is_some();
+    if single_file {
+        return;
+    }
+    // Absent outside secure contexts (plain http on a non-local host): check before use.
+    let navigator = w.navigator();
+    let has_workers = js_sys::Reflect::get(&navigator, &JsValue::from_str("serviceWorker"))
+        .is_ok_and(|v| !v.is_undefined() && !v.is_null());
+    if !has_workers {
+        return;
+    }
+    let on_failure = wasm_bindgen::closure::Closure::<dyn FnMut(JsValue)>::new(|reason| {
+        web_sys::console::warn_2(
+            &JsValue::from_str("bandgauge: offline use is not available:"),
+            &reason,
+        );
+    });
+    let _ = navigator
+        .service_worker()
+        .register("sw.js")
+        .catch(&on_failure);
+    // Called at most once, late; one small closure per page load.
+    on_failure.forget();
 }
 
 /// Milliseconds since page load, for the redraw timing.
@@ -132,4 +202,77 @@ pub fn download_text(text: &str, mime: &str, file_name: &str) -> Result<(), Stri
     let result = download(&url, file_name);
     let _ = web_sys::Url::revoke_object_url(&url);
     result
+}
+
+/// The computer's clock now, as ISO 8601 UTC (`2025-03-14T09:26:53.120Z`), for a record.
+pub fn now_iso_utc() -> String {
+    String::from(js_sys::Date::new_0().to_iso_string())
+}
+
+/// Opens the browser's print dialog (print to paper or to PDF).
+pub fn print() {
+    if let Some(w) = window() {
+        let _ = w.print();
+    }
+}
+
+/// Draws `spec` on a fresh canvas of `css_width` x `css_height` CSS pixels at `scale` device
+/// pixels per CSS pixel and returns it as a PNG `data:` URL, for an `<img>` that prints.
+pub fn chart_image(
+    spec: &ChartSpec,
+    css_width: u32,
+    css_height: u32,
+    scale: f64,
+) -> Result<String, String> {
+    let document = window().and_then(|w| w.document()).ok_or("no document")?;
+    let canvas: HtmlCanvasElement = document
+        .create_element("canvas")
+        .map_err(|_| "cannot create a canvas")?
+        .dyn_into()
+        .map_err(|_| "cannot create a canvas")?;
+    canvas.set_width((f64::from(css_width) * scale).round() as u32);
+    canvas.set_height((f64::from(css_height) * scale).round() as u32);
+    let backend =
+        CanvasBackend::with_canvas_object(canvas.clone()).ok_or("the canvas has no 2d context")?;
+    let area = backend.into_drawing_area();
+    chart::draw(&area, spec, scale)?;
+    area.present()
+        .map_err(|e| format!("chart '{}': {e}", spec.title))?;
+    canvas
+        .to_data_url()
+        .map_err(|_| format!("chart '{}' cannot be turned into an image", spec.title))
+}
+
+/// Reads a picked file as UTF-8 text (invalid bytes become U+FFFD) and hands the text, or
+/// why it could not be read, to `done`.
+pub fn read_text_file(file: &web_sys::File, done: impl FnOnce(Result<String, String>) + 'static) {
+    let Ok(reader) = web_sys::FileReader::new() else {
+        done(Err("the browser cannot read files here".into()));
+        return;
+    };
+    let done = std::rc::Rc::new(std::cell::RefCell::new(Some(done)));
+    let finish = {
+        let done = done.clone();
+        move |result: Result<String, String>| {
+            if let Some(done) = done.borrow_mut().take() {
+                done(result);
+            }
+        }
+    };
+    let reader_in_callback = reader.clone();
+    let finish_here = finish.clone();
+    // `loadend` comes after a successful read and after a failed one alike.
+    let on_loadend = wasm_bindgen::closure::Closure::once_into_js(move |_: JsValue| {
+        let text = reader_in_callback
+            .result()
+            .ok()
+            .and_then(|r| r.as_string())
+            .ok_or_else(|| "the browser could not read the file".to_string());
+        finish_here(text);
+    });
+    reader.set_onloadend(Some(on_loadend.unchecked_ref()));
+    if reader.read_as_text(file).is_err() {
+        reader.set_onloadend(None);
+        finish(Err("the browser could not read the file".into()));
+    }
 }

@@ -7,7 +7,10 @@ use crate::chart::{Axis, ChartSpec, Color, Corner, Series, palette};
 use crate::entry;
 use crate::format;
 use crate::widgets::{Caution, ChartPanel, Choice, NumberField, ResultLine, SelectField};
-use crate::{Bench, state::DopantRow};
+use crate::{
+    Bench,
+    state::{CarrierInputs, DopantRow},
+};
 use bandgauge_core::bgn::BgnModel;
 use bandgauge_core::intrinsic::IntrinsicModel;
 use bandgauge_core::ionization::IonizationModel;
@@ -114,6 +117,19 @@ pub struct RowReading {
     pub density_cm3: entry::Parsed,
 }
 
+/// The material for an id; the core's message already names the `material` field.
+pub fn material_of(id: &str) -> Result<Material, String> {
+    materials::by_id(id).map_err(|e| e.to_string())
+}
+
+/// The label of a dopant row's density field: "P density", or "density" when no species is set.
+fn density_label(species: &str) -> String {
+    match species.trim() {
+        "" => "density".to_string(),
+        s => format!("{s} density"),
+    }
+}
+
 /// Reads the dopant rows against a material.
 pub fn read_rows(material: &Material, rows: &[DopantRow]) -> Vec<RowReading> {
     rows.iter()
@@ -121,7 +137,7 @@ pub fn read_rows(material: &Material, rows: &[DopantRow]) -> Vec<RowReading> {
             species: material
                 .dopant(&row.species)
                 .map_err(|e| format!("species: {e}")),
-            density_cm3: entry::density_cm3(&format!("{} density", row.species), &row.density),
+            density_cm3: entry::density_cm3(&density_label(&row.species), &row.density),
         })
         .collect()
 }
@@ -275,6 +291,76 @@ pub fn band_diagram(outcome: &Outcome) -> ChartSpec {
     }
 }
 
+/// The material, doping and solver options of the carriers inputs as typed, or the first
+/// field's message. The same reading as [`Reading`], in one call, for the sign-off record
+/// (`crate::record`), which recomputes a calculation from its inputs.
+pub fn problem_from_inputs(
+    c: &CarrierInputs,
+) -> Result<(Material, Vec<DopantDensity>, SolveOptions), String> {
+    let material = material_of(&c.material)?;
+    let doping = read_rows(&material, &c.dopants)
+        .into_iter()
+        .map(|r| {
+            Ok(DopantDensity {
+                dopant: r.species?,
+                density_cm3: r.density_cm3?,
+            })
+        })
+        .collect::<Result<Vec<_>, String>>()?;
+    let options = SolveOptions {
+        intrinsic_model: intrinsic_model(&c.intrinsic_model, &material)?,
+        band_gap_narrowing: band_gap_narrowing(c.band_gap_narrowing, &material)?,
+        ionization_model: ionization_model(&c.ionization_model)?,
+    };
+    Ok((material, doping, options))
+}
+
+/// The full request of the carriers inputs as typed, or the first field's message (see
+/// [`problem_from_inputs`]).
+pub fn request_from_inputs(c: &CarrierInputs) -> Result<Request, String> {
+    let (material, doping, options) = problem_from_inputs(c)?;
+    Ok(Request {
+        material,
+        temperature_k: entry::temperature_k("temperature", &c.temperature)?,
+        doping,
+        options,
+        mobility_key: c.mobility_model.clone(),
+        thickness_cm: entry::positive(
+            "thickness",
+            &c.thickness,
+            bandgauge_core::units::QuantityKind::Length,
+            "cm",
+        )?,
+    })
+}
+
+/// `(quantity, model, source)` of every model an outcome used, with the mobility notes: what
+/// the caution lists and the sign-off report prints.
+pub fn models_used(o: &Outcome) -> Vec<(String, String, String)> {
+    let used = match &o.transport {
+        Ok(t) => &t.models,
+        Err(_) => &o.equilibrium.models,
+    };
+    let mut list: Vec<(String, String, String)> = used
+        .iter()
+        .map(|m| {
+            (
+                m.quantity.to_string(),
+                m.model.to_string(),
+                m.source.to_string(),
+            )
+        })
+        .collect();
+    if let Ok(t) = &o.transport {
+        list.extend(
+            t.notes
+                .iter()
+                .map(|n| ("mobility note".into(), n.clone(), String::new())),
+        );
+    }
+    list
+}
+
 /// The carriers-view inputs, read into core types (memos, shared with the sweep view).
 #[derive(Clone, Copy)]
 pub struct Reading {
@@ -302,11 +388,7 @@ impl Reading {
     /// Memos reading the carriers inputs of `bench`.
     pub fn new(bench: Bench) -> Reading {
         let inputs = bench.inputs;
-        let material = Memo::new(move |_| {
-            inputs.with(|w| {
-                materials::by_id(&w.carriers.material).map_err(|e| format!("material: {e}"))
-            })
-        });
+        let material = Memo::new(move |_| inputs.with(|w| material_of(&w.carriers.material)));
         let temperature_k = Memo::new(move |_| {
             inputs.with(|w| entry::temperature_k("temperature", &w.carriers.temperature))
         });
@@ -487,33 +569,8 @@ pub fn CarriersView(
     };
 
     let diagram = Signal::derive(move || shown.with(|o| o.as_ref().map(band_diagram)));
-    let models = Signal::derive(move || {
-        shown.with(|o| {
-            let Some(o) = o else { return Vec::new() };
-            let used = match &o.transport {
-                Ok(t) => &t.models,
-                Err(_) => &o.equilibrium.models,
-            };
-            let mut list: Vec<(String, String, String)> = used
-                .iter()
-                .map(|m| {
-                    (
-                        m.quantity.to_string(),
-                        m.model.to_string(),
-                        m.source.to_string(),
-                    )
-                })
-                .collect();
-            if let Ok(t) = &o.transport {
-                list.extend(
-                    t.notes
-                        .iter()
-                        .map(|n| ("mobility note".into(), n.clone(), String::new())),
-                );
-            }
-            list
-        })
-    });
+    let models =
+        Signal::derive(move || shown.with(|o| o.as_ref().map(models_used).unwrap_or_default()));
 
     view! {
         <div class="workspace">
@@ -572,7 +629,7 @@ pub fn CarriersView(
 }
 
 /// One result line: test id, term, unit and the formatting of the value.
-type Line = (
+pub type Line = (
     &'static str,
     &'static str,
     &'static str,
@@ -580,7 +637,7 @@ type Line = (
 );
 
 /// Band quantities, carriers and the Fermi level.
-const BAND_LINES: [Line; 10] = [
+pub const BAND_LINES: [Line; 10] = [
     ("eg", "Band gap Eg", "eV", |o| {
         format::fixed(o.equilibrium.band_gap_ev, 4)
     }),
@@ -608,7 +665,7 @@ const BAND_LINES: [Line; 10] = [
 ];
 
 /// Mobilities, resistivity and sheet resistance ("—" where the core gives none).
-const TRANSPORT_LINES: [Line; 4] = [
+pub const TRANSPORT_LINES: [Line; 4] = [
     ("mu-n", "Electron mobility μn", "cm²/V·s", |o| {
         o.transport.as_ref().map_or("—".into(), |t| {
             format::auto(t.electron_mobility_cm2_per_v_s)

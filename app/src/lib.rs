@@ -3,15 +3,19 @@
 //!
 //! Layout: `state` holds the inputs as typed (plain structs, URL and storage encodings);
 //! `entry` reads number fields; `chart` describes and draws charts; `browser` is the
-//! only module that talks to the page; `widgets` are shared components; one module per
-//! view: `carriers`, `sweep`, `resistivity`.
+//! only module that talks to the page (besides `crash_panel`, the plain-DOM error panel
+//! shown after a panic); `widgets` are shared components; one module per view:
+//! `carriers`, `sweep`, `resistivity`.
 
 pub mod browser;
 pub mod carriers;
 pub mod chart;
+pub mod crash_panel;
 pub mod entry;
 pub mod format;
 pub mod lots_view;
+pub mod record;
+pub mod report;
 pub mod resistivity;
 pub mod state;
 pub mod sweep;
@@ -77,13 +81,26 @@ pub fn App() -> impl IntoView {
     on_cleanup(move || resize.remove());
 
     // The one effect that syncs storage: the address bar and the saved inputs follow
-    // every change, so a copied link or a reload reproduces the calculation.
+    // every change, so a copied link or a reload reproduces the calculation. Defaults are
+    // not worth keeping: then nothing is stored, which is also what "forget" leaves behind.
     Effect::new(move |_| {
         let w = inputs.get();
         browser::replace_query(&state::to_query(&w));
-        browser::save(&state::to_saved_json(&w));
+        if w == Workbench::default() {
+            browser::forget_saved();
+        } else {
+            browser::save(&state::to_saved_json(&w));
+        }
     });
+    // Privacy in one step: the stored inputs go, every field returns to its default, and a
+    // notice says what was done (and what never was stored).
+    let forget = move |_| {
+        browser::forget_saved();
+        bench.edit(|w| *w = Workbench::default());
+        notices.set(vec![FORGOTTEN.to_string()]);
+    };
 
+    let report_open: report::OpenReport = RwSignal::new(None);
     let current = Memo::new(move |_| inputs.with(|w| w.view));
     let select = move |view: View| bench.edit(|w| w.view = view);
     // Arrow keys move between tabs, as in any tab strip.
@@ -110,6 +127,16 @@ pub fn App() -> impl IntoView {
             <div class="brand">
                 <span class="name">"bandgauge"</span>
                 <span class="tagline">"carriers, Fermi level and resistivity from published models"</span>
+                <button
+                    type="button"
+                    class="forget"
+                    data-testid="forget-saved"
+                    title="Inputs are kept only in this browser, so that a reload keeps them. This removes them and resets every field."
+                    on:click=forget
+                >
+                    "Forget saved inputs"
+                </button>
+                <report::RecordTools bench=bench notices=notices open=report_open />
             </div>
             <nav class="tabs" role="tablist" aria-label="Views" on:keydown=on_tab_key>
                 {View::ALL
@@ -144,8 +171,14 @@ pub fn App() -> impl IntoView {
                 View::Lots => view! { <lots_view::LotsView bench=bench /> }.into_any(),
             }}
         </main>
+        <report::ReportOverlay open=report_open />
     }
 }
+
+/// What the "Forget saved inputs" control did, in the notice it leaves.
+const FORGOTTEN: &str = "Saved inputs forgotten: this browser no longer keeps any bandgauge \
+    inputs, and every field is back to its default. Lot files are never stored; the offline \
+    copy of the app holds only the app's own files.";
 
 fn focus_tab(view: View) {
     let element = web_sys::window()

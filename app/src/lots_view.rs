@@ -30,6 +30,10 @@ pub const MAX_LISTED_REJECTIONS: usize = 1000;
 /// Converted sites kept for the wafer map and the row export (all are summarised).
 pub const MAX_KEPT_SITES: usize = 500_000;
 
+/// Bytes of lot files kept for a sign-off record; larger jobs are summarised as usual, but a
+/// record of them is refused (the record would be as large as the files, twice in memory).
+pub const MAX_RECORDED_BYTES: usize = 64 * 1024 * 1024;
+
 /// The demo lots of `demo-wafers/`, built into the page.
 pub const DEMO_FILES: [(&str, &str); 4] = [
     ("c2-4417.csv", include_str!("../../demo-wafers/c2-4417.csv")),
@@ -110,6 +114,11 @@ pub struct LotsWork {
     pub rejected: Vec<RejectedRow>,
     /// Converted sites (the first [`MAX_KEPT_SITES`]).
     pub sites: Vec<SitePoint>,
+    /// The bytes of every file as read, in `files` order, so a sign-off record can carry
+    /// them and reproduce the comparison (`crate::record`).
+    texts: Vec<Vec<u8>>,
+    /// Set when the files outgrew [`MAX_RECORDED_BYTES`] and their bytes were let go.
+    texts_dropped: bool,
 }
 
 impl LotsWork {
@@ -136,6 +145,9 @@ impl LotsWork {
             error: None,
             notes: Vec::new(),
         });
+        if !self.texts_dropped {
+            self.texts.push(Vec::new());
+        }
         self.reader = Some(LotReader::new(self.options.clone()));
     }
 
@@ -144,6 +156,13 @@ impl LotsWork {
         let Some(mut reader) = self.reader.take() else {
             return;
         };
+        let kept: usize = self.texts.iter().map(Vec::len).sum();
+        if kept + chunk.len() > MAX_RECORDED_BYTES {
+            self.texts_dropped = true;
+            self.texts = Vec::new();
+        } else if let Some(text) = self.texts.last_mut() {
+            text.extend_from_slice(chunk);
+        }
         let result = reader.feed(
             chunk,
             &mut self.book,
@@ -197,6 +216,23 @@ impl LotsWork {
             self.feed(chunk);
         }
         self.end_file();
+    }
+
+    /// The dopant given to rows without one when these files were read.
+    pub fn default_dopant(&self) -> Option<&str> {
+        self.options.default_dopant.as_deref()
+    }
+
+    /// Every file's name and bytes as read so far, in reading order; `None` when the files
+    /// outgrew [`MAX_RECORDED_BYTES`] and were not kept.
+    pub fn file_texts(&self) -> Option<Vec<(&str, &[u8])>> {
+        (!self.texts_dropped).then(|| {
+            self.files
+                .iter()
+                .map(|f| f.name.as_str())
+                .zip(self.texts.iter().map(Vec::as_slice))
+                .collect()
+        })
     }
 
     /// The summary judged against `spec`.
@@ -352,6 +388,64 @@ pub fn summary_csv(report: &LotReport) -> String {
         }
     }
     out
+}
+
+/// The lot-difference lines the view lists (only those involving `shown` when a lot is
+/// picked; the all-lots test only when none is): Welch per pair, Kruskal-Wallis for all.
+pub fn difference_lines(r: &LotReport, shown: Option<&str>) -> Vec<String> {
+    let mut lines: Vec<String> = r
+        .differences
+        .iter()
+        .filter(|d| shown.is_none_or(|f| f == d.lot_a || f == d.lot_b))
+        .map(|d| {
+            format!(
+                "{} vs {}: {:+.1} % dopant density (95 % CI {:+.1} to {:+.1} %), \
+                 Welch p = {}: {}",
+                d.lot_b,
+                d.lot_a,
+                d.percent,
+                d.percent_ci95[0],
+                d.percent_ci95[1],
+                format::auto(d.test.p_value),
+                if d.significant {
+                    "significant"
+                } else {
+                    "not significant"
+                }
+            )
+        })
+        .collect();
+    if let (Some(k), None) = (&r.kruskal_wallis, shown) {
+        lines.push(format!(
+            "All {} lots together: Kruskal-Wallis H = {}, p = {}: {}",
+            k.lots.len(),
+            format::auto(k.test.h),
+            format::auto(k.test.p_value),
+            if k.significant {
+                "the lots differ"
+            } else {
+                "no significant difference"
+            }
+        ));
+    }
+    lines
+}
+
+/// `(quantity, model, source)` of the conversion and the statistics behind a lot report:
+/// what the caution lists and the sign-off report prints.
+pub fn models_used(r: &LotReport) -> Vec<(String, String, String)> {
+    vec![
+        (
+            "resistivity to dopant density".to_string(),
+            r.model.clone(),
+            r.model_reference.to_string(),
+        ),
+        (
+            "lot statistics".to_string(),
+            "Welch's t-test on ln density, Kruskal-Wallis, Cpk".to_string(),
+            "Welch 1947; Kruskal & Wallis 1952; Cpk common practice".to_string(),
+        ),
+    ]
 }
 
 /// Verdict colours: told apart by hue and by the word printed beside them.
@@ -578,6 +672,116 @@ pub struct LotsInputs {
 thread_local! {
     /// What the view held when another view was opened; taken back when it is shown again.
     static KEPT: RefCell<Option<(LotsWork, LotsInputs)>> = const { RefCell::new(None) };
+    /// The shown view's handles, so the sign-off report can read what it shows and an opened
+    /// record can put its lot files back ([`snapshot`], [`install`]).
+    static LIVE: std::cell::Cell<Option<Live>> = const { std::cell::Cell::new(None) };
+}
+
+/// The handles of the shown view that [`snapshot`] reads and [`install`] sets.
+#[derive(Clone, Copy)]
+struct Live {
+    handles: Handles,
+    job_files: RwSignal<usize>,
+    dopant: RwSignal<String>,
+    quantity: RwSignal<String>,
+    spec_min: RwSignal<String>,
+    spec_max: RwSignal<String>,
+    lot_filter: RwSignal<String>,
+    map_wafer: RwSignal<String>,
+}
+
+/// What the lots view holds, for a sign-off record: the spec inputs as typed and the files as
+/// read, with the dopant they were read with.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LotsSnapshot {
+    /// The dopant given to rows without one when the files were read ("" for none).
+    pub read_dopant: String,
+    /// The spec inputs as typed.
+    pub inputs: LotsInputs,
+    /// Every file's name and bytes, or `None` when they outgrew [`MAX_RECORDED_BYTES`].
+    pub files: Option<Vec<(String, Vec<u8>)>>,
+    /// Rows counted, as shown.
+    pub counts: RowCounts,
+    /// A file is being read.
+    pub busy: bool,
+    /// Why files could not be read, as shown (`name: reason`).
+    pub file_errors: Vec<String>,
+}
+
+fn snapshot_of(work: &LotsWork, inputs: LotsInputs, busy: bool) -> LotsSnapshot {
+    LotsSnapshot {
+        read_dopant: work.default_dopant().unwrap_or_default().to_owned(),
+        inputs,
+        files: work.file_texts().map(|files| {
+            files
+                .into_iter()
+                .map(|(name, bytes)| (name.to_owned(), bytes.to_vec()))
+                .collect()
+        }),
+        counts: work.counts(),
+        busy,
+        file_errors: work
+            .files
+            .iter()
+            .filter_map(|f| f.error.as_ref().map(|e| format!("{}: {e}", f.name)))
+            .collect(),
+    }
+}
+
+/// What the lots view holds now (shown or kept while another view is shown).
+pub fn snapshot() -> LotsSnapshot {
+    if let Some(live) = LIVE.with(std::cell::Cell::get) {
+        let inputs = LotsInputs {
+            dopant: live.dopant.get_untracked(),
+            quantity: live.quantity.get_untracked(),
+            spec_min: live.spec_min.get_untracked(),
+            spec_max: live.spec_max.get_untracked(),
+            lot_filter: live.lot_filter.get_untracked(),
+            map_wafer: live.map_wafer.get_untracked(),
+        };
+        let busy = live.handles.busy.get_untracked();
+        if let Some(s) = live
+            .handles
+            .work
+            .try_with_value(|w| snapshot_of(w, inputs, busy))
+        {
+            return s;
+        }
+    }
+    KEPT.with(|k| match &*k.borrow() {
+        Some((work, inputs)) => snapshot_of(work, inputs.clone(), false),
+        None => snapshot_of(&LotsWork::new(None), LotsInputs::default(), false),
+    })
+}
+
+/// Whether lot files are being read now.
+pub fn is_reading() -> bool {
+    LIVE.with(std::cell::Cell::get)
+        .is_some_and(|l| l.handles.busy.get_untracked())
+}
+
+/// Puts read files and spec inputs in the lots view (shown now or when next opened). Refused
+/// while files are being read.
+pub fn install(work: LotsWork, inputs: LotsInputs) -> Result<(), String> {
+    let Some(live) = LIVE.with(std::cell::Cell::get) else {
+        KEPT.with(|k| *k.borrow_mut() = Some((work, inputs)));
+        return Ok(());
+    };
+    if live.handles.busy.get_untracked() {
+        return Err("lot files are being read; wait until reading ends".to_owned());
+    }
+    let files = work.files.len();
+    live.handles.work.set_value(work);
+    live.dopant.set(inputs.dopant);
+    live.quantity.set(inputs.quantity);
+    live.spec_min.set(inputs.spec_min);
+    live.spec_max.set(inputs.spec_max);
+    live.lot_filter.set(inputs.lot_filter);
+    live.map_wafer.set(inputs.map_wafer);
+    live.job_files.set(files);
+    live.handles.progress.update(|n| *n += 1);
+    live.handles.finished.update(|n| *n += 1);
+    Ok(())
 }
 
 impl LotsWork {
@@ -687,8 +891,21 @@ pub fn LotsView(
         busy,
     };
 
+    LIVE.with(|l| {
+        l.set(Some(Live {
+            handles,
+            job_files,
+            dopant,
+            quantity,
+            spec_min,
+            spec_max,
+            lot_filter,
+            map_wafer,
+        }))
+    });
     // Leaving the view keeps what was read and typed for when it is shown again.
     on_cleanup(move || {
+        LIVE.with(|l| l.set(None));
         let inputs = LotsInputs {
             dopant: dopant.get_untracked(),
             quantity: quantity.get_untracked(),
@@ -840,51 +1057,7 @@ pub fn LotsView(
         export_error
             .set(browser::download_text(&csv, "text/csv", "bandgauge-lot-summary.csv").err());
     };
-    let differences = move || {
-        report.with(|r| {
-            let shown = filter();
-            let mut lines: Vec<String> = r
-                .differences
-                .iter()
-                .filter(|d| {
-                    shown
-                        .as_deref()
-                        .is_none_or(|f| f == d.lot_a || f == d.lot_b)
-                })
-                .map(|d| {
-                    format!(
-                        "{} vs {}: {:+.1} % dopant density (95 % CI {:+.1} to {:+.1} %), \
-                         Welch p = {}: {}",
-                        d.lot_b,
-                        d.lot_a,
-                        d.percent,
-                        d.percent_ci95[0],
-                        d.percent_ci95[1],
-                        format::auto(d.test.p_value),
-                        if d.significant {
-                            "significant"
-                        } else {
-                            "not significant"
-                        }
-                    )
-                })
-                .collect();
-            if let (Some(k), None) = (&r.kruskal_wallis, &shown) {
-                lines.push(format!(
-                    "All {} lots together: Kruskal-Wallis H = {}, p = {}: {}",
-                    k.lots.len(),
-                    format::auto(k.test.h),
-                    format::auto(k.test.p_value),
-                    if k.significant {
-                        "the lots differ"
-                    } else {
-                        "no significant difference"
-                    }
-                ));
-            }
-            lines
-        })
-    };
+    let differences = move || report.with(|r| difference_lines(r, filter().as_deref()));
     let rejected_count = move || {
         progress.track();
         finished.track();
@@ -1042,14 +1215,7 @@ pub fn LotsView(
                             }
                         }}
                     </ul>
-                    <Caution models=Signal::derive(move || report.with(|r| vec![
-                        ("resistivity to dopant density".to_string(), r.model.clone(), r.model_reference.to_string()),
-                        (
-                            "lot statistics".to_string(),
-                            "Welch's t-test on ln density, Kruskal-Wallis, Cpk".to_string(),
-                            "Welch 1947; Kruskal & Wallis 1952; Cpk common practice".to_string(),
-                        ),
-                    ])) />
+                    <Caution models=Signal::derive(move || report.with(models_used)) />
                 </div>
                 <div class="lots-charts">
                     <ChartPanel id="lots-chart" spec=chart layout=bench.layout input_at=bench.input_at />

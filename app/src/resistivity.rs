@@ -236,6 +236,32 @@ pub fn evaluate_probe(p: &ProbeInputs, dopant: &str) -> Option<Result<ProbeResul
     Some(probe::evaluate(&reading).map_err(|e| e.to_string()))
 }
 
+/// `(quantity, model, source)` of the conversion and of the probe corrections applied, with
+/// the probe's notes: what the caution lists and the sign-off report prints.
+pub fn models_used(probe: Option<&ProbeResult>) -> Vec<(String, String, String)> {
+    let mut list = vec![(
+        "conversion".to_string(),
+        "empirical relation and charge neutrality with each mobility model, silicon at 23 C"
+            .to_string(),
+        EMPIRICAL_REFERENCE.to_string(),
+    )];
+    if let Some(r) = probe {
+        list.extend(r.corrections.iter().map(|c| {
+            (
+                format!("probe {} correction", c.name),
+                format::fixed(c.value, 5),
+                c.source.clone(),
+            )
+        }));
+        list.extend(
+            r.notes
+                .iter()
+                .map(|n| ("probe note".to_string(), n.clone(), String::new())),
+        );
+    }
+    list
+}
+
 /// The dopant species the conversion covers: silicon species with an empirical relation.
 fn dopant_choices() -> Vec<Choice> {
     materials::silicon()
@@ -403,29 +429,7 @@ pub fn ResistivityView(
             probe_shown.with(|r| r.as_ref().map(f).unwrap_or_else(|| "—".into()))
         })
     };
-    let models = Signal::derive(move || {
-        let mut list = vec![(
-            "conversion".to_string(),
-            "empirical relation and charge neutrality with each mobility model, silicon at 23 C"
-                .to_string(),
-            EMPIRICAL_REFERENCE.to_string(),
-        )];
-        if let Some(r) = probe_shown.get() {
-            list.extend(r.corrections.iter().map(|c| {
-                (
-                    format!("probe {} correction", c.name),
-                    format::fixed(c.value, 5),
-                    c.source.clone(),
-                )
-            }));
-            list.extend(
-                r.notes
-                    .iter()
-                    .map(|n| ("probe note".to_string(), n.clone(), String::new())),
-            );
-        }
-        list
-    });
+    let models = Signal::derive(move || probe_shown.with(|r| models_used(r.as_ref())));
 
     view! {
         <div class="workspace">

@@ -214,9 +214,9 @@ pub struct Workbench {
 pub const SAVED_STATE_VERSION: u32 = 1;
 
 #[derive(Serialize, Deserialize)]
-struct Saved {
+struct Saved<W> {
     version: u32,
-    workbench: Workbench,
+    workbench: W,
 }
 
 /// The state as the JSON text kept in the browser's storage.
@@ -230,15 +230,34 @@ pub fn to_saved_json(workbench: &Workbench) -> String {
 
 /// Reads a saved state; Err with a sentence for the notice when it is unreadable.
 pub fn from_saved_json(text: &str) -> Result<Workbench, String> {
-    let saved: Saved = serde_json::from_str(text)
-        .map_err(|e| format!("the saved inputs could not be read ({e}); the defaults are shown"))?;
+    let unreadable = |e: serde_json::Error| {
+        format!("the saved inputs could not be read ({e}); the defaults are shown")
+    };
+    let strict = serde_json::from_str::<Saved<Workbench>>(text);
+    let saved: Saved<serde_json::Value> = serde_json::from_str(text).map_err(unreadable)?;
     if saved.version != SAVED_STATE_VERSION {
         return Err(format!(
             "the saved inputs are from format version {} (this page reads {}); the defaults are shown",
             saved.version, SAVED_STATE_VERSION
         ));
     }
-    Ok(saved.workbench)
+    let strict_error = match strict {
+        Ok(saved) => return Ok(saved.workbench),
+        Err(e) => e,
+    };
+    // A view's inputs missing as a whole (saved before that view existed) take their
+    // defaults, like a field missing inside a view; the other views keep what was saved.
+    // Any other fault is reported with the strict reading's line and column.
+    let mut workbench = saved.workbench;
+    if let (Some(members), Ok(serde_json::Value::Object(defaults))) = (
+        workbench.as_object_mut(),
+        serde_json::to_value(Workbench::default()),
+    ) {
+        for (key, value) in defaults {
+            members.entry(key).or_insert(value);
+        }
+    }
+    serde_json::from_value(workbench).map_err(|_| unreadable(strict_error))
 }
 
 // URL query keys. Short, lower case, stable: links in e-mails and lab notes depend on them.
@@ -301,12 +320,16 @@ pub fn to_query(w: &Workbench) -> String {
         (K_TEMPERATURE, c.temperature.clone()),
     ];
     // One `dop` pair per row: `species,density`. Species symbols hold no comma, so
-    // the first comma splits the pair even if the density text has one.
+    // the first comma splits the pair even if the density text has one. No rows (intrinsic
+    // material) is one empty `dop=`: without it the link would open with the default row.
     pairs.extend(
         c.dopants
             .iter()
             .map(|d| (K_DOPANT, format!("{},{}", d.species, d.density))),
     );
+    if c.dopants.is_empty() {
+        pairs.push((K_DOPANT, String::new()));
+    }
     pairs.extend([
         (K_INTRINSIC, c.intrinsic_model.clone()),
         (K_IONIZATION, c.ionization_model.clone()),
@@ -360,11 +383,14 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
             K_MATERIAL => c.material = value,
             K_TEMPERATURE => c.temperature = value,
             K_DOPANT => {
-                let row = match value.split_once(',') {
-                    Some((species, density)) => DopantRow::new(species.trim(), density),
-                    None => DopantRow::new(value.trim(), ""),
-                };
-                dopants.get_or_insert_with(Vec::new).push(row);
+                let rows = dopants.get_or_insert_with(Vec::new);
+                // An empty value is the intrinsic material's "no rows" (see `to_query`).
+                if !value.is_empty() {
+                    rows.push(match value.split_once(',') {
+                        Some((species, density)) => DopantRow::new(species.trim(), density),
+                        None => DopantRow::new(value.trim(), ""),
+                    });
+                }
             }
             K_INTRINSIC => c.intrinsic_model = value,
             K_IONIZATION => c.ionization_model = value,
@@ -565,6 +591,21 @@ mod tests {
     }
 
     #[test]
+    fn saved_state_missing_a_whole_view_keeps_the_other_views() {
+        let mut w = Workbench::default();
+        w.carriers.temperature = "77 K".into();
+        let text = to_saved_json(&w);
+        let mut value: serde_json::Value = serde_json::from_str(&text).expect("json");
+        value["workbench"]
+            .as_object_mut()
+            .expect("object")
+            .remove("sweep");
+        let back = from_saved_json(&value.to_string()).expect("readable");
+        assert_eq!(back.carriers.temperature, "77 K");
+        assert_eq!(back.sweep, SweepInputs::default());
+    }
+
+    #[test]
     fn saved_state_of_another_version_is_refused() {
         let text = to_saved_json(&sample()).replacen("\"version\":1", "\"version\":99", 1);
         let err = from_saved_json(&text).expect_err("version 99");
@@ -627,6 +668,20 @@ mod tests {
         assert_eq!(percent_decode("100%"), "100%");
         assert_eq!(percent_decode("%4"), "%4");
         assert_eq!(percent_decode("%zz"), "%zz");
+    }
+
+    #[test]
+    fn intrinsic_material_link_keeps_no_dopant_rows() {
+        // Fuzz finding (url_state): a workbench with every dopant row removed was written
+        // without any `dop` pair, and the link opened with the default 1e15 P row.
+        let mut w = Workbench::default();
+        w.carriers.dopants.clear();
+        let query = to_query(&w);
+        assert!(query.contains("&dop=&"), "{query}");
+        assert_eq!(from_query(&query), (w, vec![]));
+        // An empty `dop` among rows adds no row.
+        let (w, _) = from_query("dop=&dop=B,1e16");
+        assert_eq!(w.carriers.dopants, vec![DopantRow::new("B", "1e16")]);
     }
 
     #[test]

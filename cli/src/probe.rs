@@ -228,6 +228,8 @@ fn probe_error(error: ProbeError) -> BadInput {
         ProbeError::DiameterTooSmall { .. } | ProbeError::DiameterNeedsThickness { .. } => {
             "--diameter"
         }
+        // The voltage over the current sets the scale of every result.
+        ProbeError::OutOfRange { .. } => "--volts",
         _ => "--temperature-c",
     };
     BadInput::new(argument, error_text(&error))

@@ -282,8 +282,20 @@ pub fn dopant_density(
             }
         })?,
         [name, _, energy, degeneracy] => {
-            let ionization_energy_ev = plain_number(argument, text, energy, "IONIZATION_EV")?;
-            let degeneracy = plain_number(argument, text, degeneracy, "DEGENERACY")?;
+            let ionization_energy_ev = plain_number(
+                argument,
+                text,
+                energy,
+                "IONIZATION_EV",
+                "the level's distance from its band edge in eV, e.g. 0.045",
+            )?;
+            let degeneracy = plain_number(
+                argument,
+                text,
+                degeneracy,
+                "DEGENERACY",
+                "the level's degeneracy factor, e.g. 2 for a donor or 4 for an acceptor",
+            )?;
             Dopant::new(
                 name.trim(),
                 kind,
@@ -320,12 +332,18 @@ pub fn dopant_density(
     })
 }
 
-fn plain_number(argument: &str, text: &str, part: &str, name: &str) -> Result<f64, BadInput> {
+fn plain_number(
+    argument: &str,
+    text: &str,
+    part: &str,
+    name: &str,
+    allowed: &str,
+) -> Result<f64, BadInput> {
     match part.trim().parse::<f64>() {
         Ok(value) if value.is_finite() => Ok(value),
         _ => Err(BadInput::new(
             argument,
-            format!("{text:?}: {name} {part:?} is not a finite number"),
+            format!("{text:?}: {name} {part:?} is not a finite number; give {allowed}"),
         )),
     }
 }

@@ -272,11 +272,11 @@ fn refused_outside_a_model_validity() {
     // Source: the stated range of the boron relation, 1e-4 to 1e4 ohm cm (ASTM F723).
     refused(
         "convert --dopant B --resistivity 1e6",
-        "--resistivity: 1e6 is outside the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
+        "--resistivity: 1e6 ohm cm is outside the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
     );
     refused(
         "convert --dopant P --density 1e22",
-        "--density: 1.0000e22 is outside the phosphorus relation (ASTM F723, 23 C); give 1.066e12 to 5.000e20 cm^-3 \
+        "--density: 1.0000e22 cm^-3 is outside the phosphorus relation (ASTM F723, 23 C); give 1.066e12 to 5.000e20 cm^-3 \
          (the phosphorus relations break down above 5e20 cm^-3)",
     );
     refused(
@@ -292,7 +292,7 @@ fn refused_outside_a_model_validity() {
     refused(
         "convert --dopant B --resistivity 1e-4 --resistivity-uncertainty 10%",
         "--resistivity-uncertainty: at the resistivity_ohm_cm low end of the uncertainty: resistivity_ohm_cm: 9e-5 \
-         is outside the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
+         ohm cm is outside the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
     );
 }
 

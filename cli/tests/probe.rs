@@ -224,11 +224,11 @@ fn refused_geometries() {
     // Source: Smits 1958: the outer probes must lie on the slice, d/s > sqrt 3.
     refused(
         "probe --volts 0.01 --amps 0.001 --spacing 0.1 --thickness 0.05 --diameter 0.15",
-        "--diameter: 0.15 is too small for probe spacing 0.1 cm; the diameter correction needs diameter > sqrt(3) x spacing = 0.1732 cm",
+        "--diameter: 0.15 cm is too small for probe spacing 0.1 cm; the diameter correction needs diameter > sqrt(3) x spacing = 0.1732 cm",
     );
     refused(
         "probe --volts 0.01 --amps 0.001 --spacing 0.1 --diameter 15",
-        "--diameter: 15 given without thickness_cm; the diameter correction (Smits 1958) is for a thin wafer, give its thickness",
+        "--diameter: 15 cm given without thickness_cm; the diameter correction (Smits 1958) is for a thin wafer, give its thickness",
     );
     // A thickness-to-spacing ratio beyond f64 is one the thickness correction cannot handle.
     refused(
@@ -265,8 +265,8 @@ fn refused_temperatures_dopants_and_models() {
     // Outside the empirical relation's range: stated 1e-4 to 1e4 ohm cm for boron (ASTM F723).
     refused(
         "probe --volts 1e-9 --amps 1 --spacing 0.1 --dopant B",
-        "--volts: the reading's resistivity cannot be converted: resistivity_ohm_cm: 6.283185307179587e-10 is outside \
-         the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
+        "--volts: the reading's resistivity cannot be converted: resistivity_ohm_cm: 6.283185307179587e-10 ohm cm is \
+         outside the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
     );
 }
 

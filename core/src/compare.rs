@@ -21,7 +21,7 @@ use crate::empirical::{
 };
 use crate::materials::{DopantKind, Material, MaterialError};
 use crate::mobility::{ConductivityType, MobilityModel};
-use crate::neutrality::SolveOptions;
+use crate::neutrality::{CarrierError, SolveOptions};
 use crate::resistivity::{self, PhysicsOptions, ResistivityError, ResistivityPoint};
 
 /// How far (K) from 23 C a temperature may be for the empirical relation to be used as is:
@@ -452,7 +452,8 @@ pub struct Comparison {
 ///
 /// # Errors
 /// [`ConversionError::Dopant`]; [`ConversionError::NoApplicableModel`] when no model covers the
-/// material and dopant.
+/// material and dopant; [`ConversionError::Physics`] when the value or the temperature is
+/// refused by every model alike (not finite, or not > 0; a density may be 0).
 pub fn compare(
     material: &Material,
     dopant_symbol: &str,
@@ -463,6 +464,27 @@ pub fn compare(
     let dopant = material
         .dopant(dopant_symbol)
         .map_err(ConversionError::Dopant)?;
+    // A value or temperature that no model can take is refused once, rather than listed as
+    // every model's refusal in a comparison that would echo the NaN or infinity.
+    let invalid_input = match input {
+        ConversionInput::ResistivityOhmCm(v) if !(v.is_finite() && v > 0.0) => {
+            Some(ResistivityError::InvalidResistivity { value_ohm_cm: v })
+        }
+        ConversionInput::DensityCm3(v) if !(v.is_finite() && v >= 0.0) => {
+            Some(ResistivityError::InvalidDensity { value_cm3: v })
+        }
+        _ => None,
+    };
+    let invalid = invalid_input.or_else(|| {
+        (!(temperature_k.is_finite() && temperature_k > 0.0)).then_some(ResistivityError::Carriers(
+            CarrierError::InvalidTemperature {
+                value: temperature_k,
+            },
+        ))
+    });
+    if let Some(error) = invalid {
+        return Err(ConversionError::Physics(error));
+    }
     let models: Vec<ConversionModel> = ConversionModel::all()
         .into_iter()
         .filter(|m| m.applicable(&material.id, &dopant.symbol))
@@ -579,6 +601,35 @@ fn spread(answers: &[ModelAnswer], input: ConversionInput) -> Option<Spread> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_value_or_temperature_no_model_takes_is_refused_once() {
+        let si = crate::materials::silicon();
+        let options = SolveOptions::default();
+        let refused = |input, t| compare(&si, "B", input, t, &options).map(|_| ());
+        for t in [f64::NAN, f64::INFINITY, 0.0, -1.0] {
+            let result = refused(ConversionInput::DensityCm3(1e15), t);
+            assert!(
+                matches!(result, Err(ConversionError::Physics(ResistivityError::Carriers(
+                    CarrierError::InvalidTemperature { value }
+                ))) if value.to_bits() == t.to_bits()),
+                "{t}: {result:?}"
+            );
+        }
+        let rho = refused(ConversionInput::ResistivityOhmCm(f64::NAN), 300.0);
+        assert!(
+            matches!(rho, Err(ConversionError::Physics(ResistivityError::InvalidResistivity { value_ohm_cm })) if value_ohm_cm.is_nan()),
+            "{rho:?}"
+        );
+        assert_eq!(
+            refused(ConversionInput::DensityCm3(-1.0), 300.0),
+            Err(ConversionError::Physics(ResistivityError::InvalidDensity {
+                value_cm3: -1.0
+            }))
+        );
+        // A density of 0 is the physics models' to answer (intrinsic material).
+        assert!(refused(ConversionInput::DensityCm3(0.0), 300.0).is_ok());
+    }
 
     #[test]
     fn ids_round_trip_and_are_unique() {

@@ -258,8 +258,8 @@ impl fmt::Display for EmpiricalError {
                 range,
             } => write!(
                 f,
-                "resistivity_ohm_cm: {value_ohm_cm:e} is outside the {relation} relation (ASTM \
-                 F723, 23 C); give {:e} to {:e} ohm cm",
+                "resistivity_ohm_cm: {value_ohm_cm:e} ohm cm is outside the {relation} relation \
+                 (ASTM F723, 23 C); give {:e} to {:e} ohm cm",
                 range.resistivity_min_ohm_cm, range.resistivity_max_ohm_cm
             ),
             EmpiricalError::DensityOutOfRange {
@@ -268,8 +268,8 @@ impl fmt::Display for EmpiricalError {
                 range,
             } => write!(
                 f,
-                "density_cm3: {value_cm3:.4e} is outside the {relation} relation (ASTM F723, \
-                 23 C); give {:.3e} to {:.3e} cm^-3{}",
+                "density_cm3: {value_cm3:.4e} cm^-3 is outside the {relation} relation (ASTM \
+                 F723, 23 C); give {:.3e} to {:.3e} cm^-3{}",
                 range.density_min_cm3,
                 range.density_max_cm3,
                 if *relation == EmpiricalRelation::Phosphorus {

@@ -281,6 +281,14 @@ pub enum MobilityError {
         /// Highest temperature allowed, K.
         max_k: f64,
     },
+    /// A power law in T leaves the floating-point range: the temperature is far outside any
+    /// parameter set's range (only the functions that take a parameter set check no range).
+    OutsideFloatRange {
+        /// Model id.
+        model: &'static str,
+        /// The value given, K.
+        value_k: f64,
+    },
 }
 
 impl fmt::Display for MobilityError {
@@ -328,7 +336,14 @@ impl fmt::Display for MobilityError {
                 max_k,
             } => write!(
                 f,
-                "temperature_k: {value_k} is outside the {model} mobility model; give {min_k} to {max_k} K"
+                "temperature_k: {value_k} K is outside the range of the {model} mobility model; \
+                 give {min_k} to {max_k} K"
+            ),
+            MobilityError::OutsideFloatRange { model, value_k } => write!(
+                f,
+                "temperature_k: {value_k:e} K is far outside the {model} mobility model, whose \
+                 power laws in T overflow there; give a temperature in the range of its \
+                 parameter set (about 100 to 500 K for the published sets)"
             ),
         }
     }
@@ -651,8 +666,13 @@ pub fn caughey_thomas_cm2_per_v_s(
     let tn = temperature_k / REFERENCE_TEMPERATURE_K;
     let mu_lattice = params.mu_max * tn.powf(-params.theta1);
     let n_ref = params.n_ref_cm3 * tn.powf(params.theta2);
-    Ok(params.mu_min
-        + (mu_lattice - params.mu_min) / (1.0 + (ionized_impurity_cm3 / n_ref).powf(params.lambda)))
+    finite_mobility(
+        "caughey-thomas",
+        temperature_k,
+        params.mu_min
+            + (mu_lattice - params.mu_min)
+                / (1.0 + (ionized_impurity_cm3 / n_ref).powf(params.lambda)),
+    )
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -735,7 +755,11 @@ pub fn lattice_cm2_per_v_s(
         params.max_cm3,
     )?;
     check_positive_temperature(temperature_k)?;
-    Ok(params.mu_300 * (temperature_k / REFERENCE_TEMPERATURE_K).powf(-params.gamma))
+    finite_mobility(
+        "lattice",
+        temperature_k,
+        params.mu_300 * (temperature_k / REFERENCE_TEMPERATURE_K).powf(-params.gamma),
+    )
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -1067,6 +1091,15 @@ fn check_positive_temperature(t: f64) -> Result<(), MobilityError> {
     }
 }
 
+/// `mu` when it is a finite number, else [`MobilityError::OutsideFloatRange`] at `t`.
+fn finite_mobility(model: &'static str, t: f64, mu: f64) -> Result<f64, MobilityError> {
+    if mu.is_finite() {
+        Ok(mu)
+    } else {
+        Err(MobilityError::OutsideFloatRange { model, value_k: t })
+    }
+}
+
 fn check_temperature(
     model: &'static str,
     t: f64,
@@ -1087,6 +1120,22 @@ fn check_temperature(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn power_laws_that_overflow_are_refused_not_returned() {
+        // (T/300)^-2.1 overflows f64 for T near the smallest normal float.
+        let t = f64::MIN_POSITIVE;
+        for result in [
+            caughey_thomas_cm2_per_v_s(&SOTOODEH_GAAS_ELECTRONS, 0.0, t),
+            lattice_cm2_per_v_s(&SILICON_LATTICE_HOLES, 0.0, t),
+        ] {
+            assert!(
+                matches!(result, Err(MobilityError::OutsideFloatRange { value_k, .. }) if value_k == t),
+                "{result:?}"
+            );
+        }
+        assert!(caughey_thomas_cm2_per_v_s(&SOTOODEH_GAAS_ELECTRONS, 0.0, 1e-3).is_ok());
+    }
 
     #[test]
     fn ids_round_trip() {

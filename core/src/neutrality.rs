@@ -52,6 +52,11 @@ use crate::ionization::{
 };
 use crate::materials::{Dopant, DopantDensity, DopantKind, Material, MaterialError};
 
+/// Lowest temperature accepted, K: below about 1e-304 K the thermal energy kT is not a normal
+/// floating-point number and the reduced energies E/kT overflow. Far below any physical
+/// temperature; every temperature from here up solves.
+pub const MIN_TEMPERATURE_K: f64 = 1e-300;
+
 /// Largest dopant density accepted, cm^-3: above the atomic density of any
 /// solid (silicon has 5.0e22 atoms per cm^3), so nothing physical is refused.
 pub const MAX_DENSITY_CM3: f64 = 1e24;
@@ -277,6 +282,15 @@ pub enum CarrierError {
 impl fmt::Display for CarrierError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
+            CarrierError::InvalidTemperature { value }
+                if *value > 0.0 && *value < MIN_TEMPERATURE_K =>
+            {
+                write!(
+                    f,
+                    "temperature_k: {value:e} is not allowed; give a finite value > 0 K, at least \
+                 {MIN_TEMPERATURE_K:e} K (below it E/kT overflows the floating-point range)"
+                )
+            }
             CarrierError::InvalidTemperature { value } => write!(
                 f,
                 "temperature_k: {value} is not allowed; give a finite value > 0 K"
@@ -345,7 +359,7 @@ impl From<MaterialError> for CarrierError {
 }
 
 pub(crate) fn check_temperature(temperature_k: f64) -> Result<(), CarrierError> {
-    if temperature_k.is_finite() && temperature_k > 0.0 {
+    if temperature_k.is_finite() && temperature_k >= MIN_TEMPERATURE_K {
         Ok(())
     } else {
         Err(CarrierError::InvalidTemperature {
@@ -1210,6 +1224,31 @@ fn fd_ratio(eta: f64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_temperature_below_the_floor_is_refused_and_says_why() {
+        let si = crate::materials::silicon();
+        let boron = si.dopant("B").expect("B in si");
+        let doping = [DopantDensity {
+            dopant: boron,
+            density_cm3: 4.5e20,
+        }];
+        for t in [1e-310, f64::MIN_POSITIVE, 1e-301] {
+            let error =
+                solve(&si, t, &doping, &SolveOptions::default()).expect_err("below 1e-300 K");
+            assert_eq!(
+                error.to_string(),
+                format!(
+                    "temperature_k: {t:e} is not allowed; give a finite value > 0 K, at least \
+                     1e-300 K (below it E/kT overflows the floating-point range)"
+                )
+            );
+        }
+        let eq =
+            solve(&si, MIN_TEMPERATURE_K, &doping, &SolveOptions::default()).expect("1e-300 K");
+        assert!(eq.fermi_minus_conduction_ev.is_finite());
+        assert!(eq.log10_electrons_cm3.is_finite());
+    }
     use crate::bandgap::Varshni;
     use crate::materials::{self, Dopant};
 

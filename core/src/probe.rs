@@ -61,6 +61,15 @@ pub enum ProbeError {
     },
     /// The temperature correction's physics model refused.
     Model(ResistivityError),
+    /// The inputs are each finite and > 0, but a result computed from them is not (it
+    /// overflows to infinity or underflows to zero): the inputs are in the wrong units or far
+    /// outside any measurement.
+    OutOfRange {
+        /// The computed quantity, e.g. "resistivity_ohm_cm".
+        quantity: &'static str,
+        /// The value computed.
+        value: f64,
+    },
 }
 
 impl fmt::Display for ProbeError {
@@ -77,13 +86,13 @@ impl fmt::Display for ProbeError {
                 spacing_cm,
             } => write!(
                 f,
-                "diameter_cm: {diameter_cm} is too small for probe spacing {spacing_cm} cm; the \
+                "diameter_cm: {diameter_cm} cm is too small for probe spacing {spacing_cm} cm; the \
                  diameter correction needs diameter > sqrt(3) x spacing = {:.4} cm",
                 3f64.sqrt() * spacing_cm
             ),
             ProbeError::DiameterNeedsThickness { diameter_cm } => write!(
                 f,
-                "diameter_cm: {diameter_cm} given without thickness_cm; the diameter correction \
+                "diameter_cm: {diameter_cm} cm given without thickness_cm; the diameter correction \
                  (Smits 1958) is for a thin wafer, give its thickness"
             ),
             ProbeError::InvalidTemperature { value_c } => write!(
@@ -91,11 +100,25 @@ impl fmt::Display for ProbeError {
                 "temperature_c: {value_c} is not allowed; give a finite value above -273.15 C"
             ),
             ProbeError::Model(e) => write!(f, "temperature correction: {e}"),
+            ProbeError::OutOfRange { quantity, value } => write!(
+                f,
+                "{quantity}: the inputs give {value:e}, outside the range of floating-point \
+                 numbers; check the units of the voltage, current and lengths"
+            ),
         }
     }
 }
 
 impl std::error::Error for ProbeError {}
+
+/// A computed `value` when it is finite and > 0, else [`ProbeError::OutOfRange`].
+fn in_range(quantity: &'static str, value: f64) -> Result<f64, ProbeError> {
+    if value.is_finite() && value > 0.0 {
+        Ok(value)
+    } else {
+        Err(ProbeError::OutOfRange { quantity, value })
+    }
+}
 
 fn positive(field: &'static str, value: f64) -> Result<f64, ProbeError> {
     if value.is_finite() && value > 0.0 {
@@ -119,8 +142,11 @@ pub fn sheet_resistance_ohm_sq(
     resistivity_ohm_cm: f64,
     thickness_cm: f64,
 ) -> Result<f64, ProbeError> {
-    Ok(positive("resistivity_ohm_cm", resistivity_ohm_cm)?
-        / positive("thickness_cm", thickness_cm)?)
+    in_range(
+        "sheet_resistance_ohm_sq",
+        positive("resistivity_ohm_cm", resistivity_ohm_cm)?
+            / positive("thickness_cm", thickness_cm)?,
+    )
 }
 
 /// Resistivity of a layer from its sheet resistance, ohm cm.
@@ -134,7 +160,8 @@ pub fn resistivity_from_sheet_ohm_cm(
     sheet_resistance_ohm_sq: f64,
     thickness_cm: f64,
 ) -> Result<f64, ProbeError> {
-    Ok(
+    in_range(
+        "resistivity_ohm_cm",
         positive("sheet_resistance_ohm_sq", sheet_resistance_ohm_sq)?
             * positive("thickness_cm", thickness_cm)?,
     )
@@ -155,7 +182,10 @@ pub fn resistivity_from_sheet_ohm_cm(
 /// # Errors
 /// [`ProbeError::NotPositive`] for `volts` or `amps`.
 pub fn thin_sheet_resistance_ohm_sq(volts: f64, amps: f64) -> Result<f64, ProbeError> {
-    Ok(THIN_SHEET_FACTOR * positive("volts", volts)? / positive("amps", amps)?)
+    in_range(
+        "sheet_resistance_ohm_sq",
+        THIN_SHEET_FACTOR * positive("volts", volts)? / positive("amps", amps)?,
+    )
 }
 
 /// Resistivity of a semi-infinite body from a collinear equal-spacing reading.
@@ -176,7 +206,8 @@ pub fn semi_infinite_resistivity_ohm_cm(
     amps: f64,
     spacing_cm: f64,
 ) -> Result<f64, ProbeError> {
-    Ok(
+    in_range(
+        "resistivity_ohm_cm",
         2.0 * PI * positive("spacing_cm", spacing_cm)? * positive("volts", volts)?
             / positive("amps", amps)?,
     )
@@ -226,7 +257,14 @@ pub fn thickness_correction(
             value: x,
         });
     }
-    let bulk_factor = 1.0 / (2.0 * (0.5 + 2.0 * image_sum(x)));
+    // Past SEMI_INFINITE_RATIO the image sum is below 1e-18 and cannot change the factor in
+    // f64; the series itself overflows for t/s beyond about 1e60.
+    let images = if x > SEMI_INFINITE_RATIO {
+        0.0
+    } else {
+        image_sum(x)
+    };
+    let bulk_factor = 1.0 / (2.0 * (0.5 + 2.0 * images));
     Ok(ThicknessCorrection {
         thickness_over_spacing: x,
         bulk_factor,
@@ -235,6 +273,10 @@ pub fn thickness_correction(
 }
 
 /// sum_{n>=1} [g1(2 n x) - g4(2 n x)], g_a(u) = (a + u^2)^-1/2.
+/// t/s above which a layer is a semi-infinite body to f64 precision: the image sum is about
+/// 3 zeta(3) / (16 (t/s)^3), 2.3e-19 at 1e6, less than half an ulp of the bulk factor's 1.
+const SEMI_INFINITE_RATIO: f64 = 1e6;
+
 fn image_sum(x: f64) -> f64 {
     let f = |n: f64| image_term(x, n, 0);
     let mut direct = 0.0;
@@ -468,7 +510,10 @@ pub struct ProbeResult {
 /// # Errors
 /// Any [`ProbeError`].
 pub fn evaluate(reading: &ProbeReading) -> Result<ProbeResult, ProbeError> {
-    let v_over_i = positive("volts", reading.volts)? / positive("amps", reading.amps)?;
+    let v_over_i = in_range(
+        "volts / amps",
+        positive("volts", reading.volts)? / positive("amps", reading.amps)?,
+    )?;
     let s = positive("spacing_cm", reading.spacing_cm)?;
     let mut corrections = Vec::new();
     let mut notes = Vec::new();
@@ -512,6 +557,10 @@ pub fn evaluate(reading: &ProbeReading) -> Result<ProbeResult, ProbeError> {
             (Some(sheet), sheet * t, "layer")
         }
     };
+    if let Some(sheet) = sheet {
+        in_range("sheet_resistance_ohm_sq", sheet)?;
+    }
+    in_range("resistivity_ohm_cm", rho)?;
     if let Some(rt) = &reading.temperature {
         let options = PhysicsOptions::with_mobility(rt.mobility);
         let tc = temperature_correction_to_23c(
@@ -541,6 +590,64 @@ pub fn evaluate(reading: &ProbeReading) -> Result<ProbeResult, ProbeError> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_layer_far_thicker_than_the_spacing_is_a_semi_infinite_body() {
+        for x in [1e6 * (1.0 + f64::EPSILON), 1e60, 1e200] {
+            let tc = thickness_correction(x, 1.0).expect("finite ratio");
+            assert_eq!(tc.bulk_factor, 1.0, "t/s = {x:e}");
+            assert!(tc.thin_sheet_factor.is_finite() && tc.thin_sheet_factor > 0.0);
+        }
+        // Just below the switch the series gives the same bulk factor to f64 precision.
+        let below = thickness_correction(1e6, 1.0).expect("finite ratio");
+        assert!(
+            (below.bulk_factor - 1.0).abs() <= f64::EPSILON,
+            "{}",
+            below.bulk_factor
+        );
+    }
+
+    #[test]
+    fn results_beyond_the_float_range_are_refused() {
+        let out_of_range = |result: Result<f64, ProbeError>| matches!(result, Err(ProbeError::OutOfRange { value, .. }) if !(value.is_finite() && value > 0.0));
+        assert!(out_of_range(sheet_resistance_ohm_sq(
+            6e6,
+            f64::MIN_POSITIVE
+        )));
+        assert!(out_of_range(resistivity_from_sheet_ohm_cm(1e-300, 1e-300)));
+        assert!(out_of_range(thin_sheet_resistance_ohm_sq(1e300, 1e-300)));
+        assert!(out_of_range(semi_infinite_resistivity_ohm_cm(
+            1e300, 1e-300, 1.0
+        )));
+        let reading = ProbeReading {
+            volts: 1e-300,
+            amps: 1e300,
+            spacing_cm: 0.1,
+            thickness_cm: None,
+            diameter_cm: None,
+            temperature: None,
+        };
+        assert!(matches!(
+            evaluate(&reading),
+            Err(ProbeError::OutOfRange {
+                quantity: "volts / amps",
+                ..
+            })
+        ));
+        let thick = ProbeReading {
+            volts: 1e300,
+            amps: 1e-8,
+            thickness_cm: Some(0.05),
+            ..reading
+        };
+        assert!(matches!(
+            evaluate(&thick),
+            Err(ProbeError::OutOfRange {
+                quantity: "sheet_resistance_ohm_sq",
+                ..
+            })
+        ));
+    }
 
     #[test]
     fn euler_maclaurin_tail_matches_a_long_direct_sum() {

@@ -286,3 +286,107 @@ pub async fn screenshot(client: &Client, name: &str) -> PathBuf {
     std::fs::write(&path, png).expect("write screenshot");
     path
 }
+
+/// A static file server that answers one request per connection and then closes it, so
+/// that [`StoppableServer::stop`] leaves nothing open: afterwards its address refuses
+/// connections, as a server gone offline does. (A [`StaticServer`] keeps the browser's idle
+/// keep-alive connections, which go on accepting requests that nobody answers after drop.)
+pub struct StoppableServer {
+    /// The base URL, ending in `/`.
+    pub url: String,
+    /// Every path requested so far, without query.
+    pub requests: Arc<std::sync::Mutex<Vec<String>>>,
+    stop: Arc<std::sync::atomic::AtomicBool>,
+    thread: Option<std::thread::JoinHandle<()>>,
+}
+
+/// How often the stoppable server's accept loop looks at its stop flag.
+const ACCEPT_POLL: Duration = Duration::from_millis(10);
+/// Longest wait for a request's head on an accepted connection (a speculative
+/// pre-connection may never send one).
+const REQUEST_HEAD_TIMEOUT: Duration = Duration::from_secs(10);
+/// Largest request head read; the browser's are a few hundred bytes.
+const MAX_REQUEST_HEAD: usize = 64 * 1024;
+
+impl StoppableServer {
+    /// Serves `root` on a free loopback port.
+    pub fn start(root: &Path) -> StoppableServer {
+        let listener = TcpListener::bind("127.0.0.1:0").expect("bind stoppable server");
+        listener
+            .set_nonblocking(true)
+            .expect("non-blocking listener");
+        let port = listener.local_addr().expect("local address").port();
+        let requests = Arc::new(std::sync::Mutex::new(Vec::new()));
+        let stop = Arc::new(std::sync::atomic::AtomicBool::new(false));
+        let (root, log, halt) = (root.to_path_buf(), requests.clone(), stop.clone());
+        let thread = std::thread::spawn(move || {
+            while !halt.load(std::sync::atomic::Ordering::SeqCst) {
+                match listener.accept() {
+                    Ok((stream, _)) => {
+                        let (root, log) = (root.clone(), log.clone());
+                        std::thread::spawn(move || serve_one(stream, &root, &log));
+                    }
+                    Err(_) => std::thread::sleep(ACCEPT_POLL),
+                }
+            }
+            // The listener is dropped here: from now on the port refuses connections.
+        });
+        StoppableServer {
+            url: format!("http://127.0.0.1:{port}/"),
+            requests,
+            stop,
+            thread: Some(thread),
+        }
+    }
+
+    /// Stops listening; returns once the address refuses connections.
+    pub fn stop(&mut self) {
+        self.stop.store(true, std::sync::atomic::Ordering::SeqCst);
+        if let Some(t) = self.thread.take() {
+            let _ = t.join();
+        }
+    }
+}
+
+impl Drop for StoppableServer {
+    fn drop(&mut self) {
+        self.stop();
+    }
+}
+
+/// Answers the one request on `stream` with a file of `root` (or 404) and closes it.
+fn serve_one(mut stream: std::net::TcpStream, root: &Path, log: &std::sync::Mutex<Vec<String>>) {
+    use std::io::{Read, Write};
+    let _ = stream.set_nonblocking(false);
+    let _ = stream.set_read_timeout(Some(REQUEST_HEAD_TIMEOUT));
+    let mut head = Vec::new();
+    let mut buf = [0u8; 4096];
+    while !head.windows(4).any(|w| w == b"\r\n\r\n") && head.len() < MAX_REQUEST_HEAD {
+        match stream.read(&mut buf) {
+            Ok(0) | Err(_) => return,
+            Ok(n) => head.extend_from_slice(&buf[..n]),
+        }
+    }
+    let head = String::from_utf8_lossy(&head);
+    let mut words = head.lines().next().unwrap_or("").split_whitespace();
+    let (method, target) = (words.next().unwrap_or(""), words.next().unwrap_or("/"));
+    let raw = target.split(['?', '#']).next().unwrap_or("/").to_string();
+    log.lock().expect("request log").push(raw.clone());
+    let rel = raw.trim_start_matches('/');
+    let rel = if rel.is_empty() { "index.html" } else { rel };
+    let path = root.join(rel);
+    let safe = !rel.split('/').any(|p| p == "..");
+    let (status, mime, body) = match std::fs::read(&path) {
+        Ok(bytes) if safe && method == "GET" => ("200 OK", mime_of(&path), bytes),
+        _ => ("404 Not Found", "text/plain", b"not found".to_vec()),
+    };
+    let header = format!(
+        "HTTP/1.1 {status}\r\nContent-Type: {mime}\r\nContent-Length: {}\r\n\
+         Cache-Control: no-cache\r\nConnection: close\r\n\r\n",
+        body.len()
+    );
+    let _ = stream.write_all(header.as_bytes());
+    let _ = stream.write_all(&body);
+    let _ = stream.flush();
+    let _ = stream.shutdown(std::net::Shutdown::Both);
+}

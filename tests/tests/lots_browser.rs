@@ -674,3 +674,180 @@ async fn a_large_file_is_read_in_pieces_with_visible_progress() {
     })
     .await;
 }
+
+/// Size of the generated file of the 50 MB test, bytes (50 MiB).
+const FIFTY_MB: usize = 50 * 1024 * 1024;
+/// How long the 50 MB file may take on a slow, shared test machine before the test gives up.
+const FIFTY_MB_READ_WAIT: Duration = Duration::from_secs(600);
+/// Responsiveness: the longest the page may go without running a timer callback while it
+/// reads. A page that stays under this still answers a click or a key within a second; a page
+/// that read the whole file in one go would block for the whole read. A property, not a speed
+/// target: the read itself may take as long as the machine needs.
+const MAX_TIMER_GAP_MS: f64 = 1000.0;
+/// Lots and wafers of the 50 MB file; sites per wafer grow until the file reaches its size.
+const FIFTY_MB_LOTS: usize = 6;
+const FIFTY_MB_WAFERS: usize = 25;
+
+/// A lot file of at least `bytes` bytes: `FIFTY_MB_LOTS` lots of `FIFTY_MB_WAFERS` wafers with
+/// the same number of sites each, positions and invented resistivities (demo data). Returns
+/// the text and the sites per wafer.
+fn file_of_at_least(bytes: usize) -> (String, usize) {
+    let header = "lot,wafer,site,x [mm],y [mm],dopant,resistivity [ohm-cm]\n";
+    let row = |lot: usize, wafer: usize, site: usize| {
+        // Invented values: lots 0.3 ohm cm apart, wafers 0.02 apart, sites over 0.5.
+        let value =
+            9.0 + lot as f64 * 0.3 + wafer as f64 * 0.02 + ((site * 31) % 1000) as f64 / 2000.0;
+        let x = (site % 100) as f64 * 1.5 - 75.0;
+        let y = ((site / 100) % 100) as f64 * 1.5 - 75.0;
+        format!("L{lot}-88,{wafer:02},{site},{x},{y},B,{value:.3}\n")
+    };
+    let build = |sites: usize| {
+        let mut text = String::with_capacity(bytes + bytes / 10);
+        text.push_str(header);
+        for lot in 0..FIFTY_MB_LOTS {
+            for wafer in 0..FIFTY_MB_WAFERS {
+                for site in 0..sites {
+                    text.push_str(&row(lot, wafer, site));
+                }
+            }
+        }
+        text
+    };
+    // Estimate the sites per wafer from a sample of rows, then grow until the size is reached.
+    let sample: usize = (0..1000).map(|s| row(3, 12, s).len()).sum();
+    let mut sites = bytes * 1000 / (sample * FIFTY_MB_LOTS * FIFTY_MB_WAFERS) + 1;
+    let mut text = build(sites);
+    while text.len() < bytes {
+        sites = sites * bytes / text.len() + 1;
+        text = build(sites);
+    }
+    assert!(text.len() >= bytes, "generated {} bytes", text.len());
+    (text, sites)
+}
+
+#[tokio::test(flavor = "multi_thread")]
+async fn a_50_mb_file_is_read_with_progress_and_the_page_stays_responsive() {
+    with_browser(LAPTOP.0, LAPTOP.1, |client, base| async move {
+        let (text, sites) = file_of_at_least(FIFTY_MB);
+        let rows = (FIFTY_MB_LOTS * FIFTY_MB_WAFERS * sites) as u64;
+        // What the core makes of the same text: the page must show the same counts.
+        let expected = expected_for(&[("fifty.csv".to_owned(), text.clone())], None);
+        assert_eq!(expected.counts.read, rows);
+        assert_eq!(expected.counts.rejected, 0);
+        let size = text.len();
+        let file = TempFile::new("fifty-mb-lots.csv", &text);
+        drop(text);
+        open_lots(&client, &base).await;
+        // Every timer callback records the longest pause since the one before, and every status
+        // the page shows is kept with the time and the progress bar's value.
+        run_script(
+            &client,
+            r#"
+            window.__gap = 0; window.__gap_all = 0; window.__last = 0; window.__ticks = 0;
+            window.__seen = []; window.__was_reading = false;
+            window.__timer = setInterval(function () {
+                const now = performance.now();
+                if (window.__last > 0) {
+                    // A pause between two pieces: the page said "Reading" at both ends.
+                    if (window.__reading && window.__was_reading) {
+                        window.__gap = Math.max(window.__gap, now - window.__last);
+                    }
+                    window.__gap_all = Math.max(window.__gap_all, now - window.__last);
+                }
+                window.__was_reading = !!window.__reading;
+                window.__last = now;
+                window.__ticks += 1;
+            }, 0);
+            const box = document.querySelector('.lots-progress');
+            new MutationObserver(function () {
+                const status = document.querySelector('[data-testid="lots-status"]').textContent;
+                const bar = document.querySelector('[data-testid="lots-progress"]');
+                window.__reading = status.startsWith('Reading');
+                window.__seen.push([status, bar ? bar.value : -1, window.__ticks, performance.now()]);
+            }).observe(box, { subtree: true, childList: true, characterData: true, attributes: true });
+            "#,
+        )
+        .await;
+        let started = Instant::now();
+        by_testid(&client, "lots-files")
+            .await
+            .send_keys(&file.path())
+            .await
+            .expect("give the file input a path");
+        let deadline = Instant::now() + FIFTY_MB_READ_WAIT;
+        let wanted = format!("1 file(s) read: {rows} rows read, {rows} converted, 0 rejected");
+        loop {
+            let status = text_of(&client, "lots-status").await;
+            if status == wanted {
+                break;
+            }
+            assert!(
+                Instant::now() < deadline,
+                "not read within {FIFTY_MB_READ_WAIT:?}; status: {status}"
+            );
+            tokio::time::sleep(Duration::from_millis(200)).await;
+        }
+        let wall = started.elapsed();
+        let seen = client
+            .execute(
+                "clearInterval(window.__timer); \
+                 return [window.__seen, window.__gap, window.__gap_all];",
+                vec![],
+            )
+            .await
+            .expect("read the recorded statuses");
+        let gap_ms = seen[1].as_f64().unwrap_or(f64::INFINITY);
+        // Any pause, the summary's first drawing after the last piece included (reported only:
+        // it is one step of its own, not a piece of the read).
+        let gap_all_ms = seen[2].as_f64().unwrap_or(f64::INFINITY);
+        let seen = seen[0].as_array().cloned().unwrap_or_default();
+        let reading: Vec<&serde_json::Value> = seen
+            .iter()
+            .filter(|s| s[0].as_str().is_some_and(|t| t.starts_with("Reading")))
+            .collect();
+        // Progress is shown and advances: the bar's value and the percentage both grow.
+        let bar: Vec<f64> = reading.iter().filter_map(|s| s[1].as_f64()).collect();
+        assert!(bar.iter().all(|v| (0.0..=1.0).contains(v)), "bar values {bar:?}");
+        assert!(
+            bar.windows(2).all(|w| w[1] >= w[0]),
+            "the progress bar went back: {bar:?}"
+        );
+        let mut percents: Vec<String> = reading
+            .iter()
+            .filter_map(|s| {
+                let t = s[0].as_str()?;
+                Some(t.split(", ").nth(1)?.split(" %").next()?.to_string())
+            })
+            .collect();
+        percents.dedup();
+        assert!(
+            percents.len() >= 10,
+            "only {} progress steps seen: {percents:?}",
+            percents.len()
+        );
+        // Responsive: timers kept running between pieces, never paused for long.
+        let ticks = |s: &serde_json::Value| s[2].as_f64().unwrap_or(0.0);
+        let (first, last) = (reading[0], reading[reading.len() - 1]);
+        assert!(ticks(last) > ticks(first), "no timer ran while the file was read");
+        assert!(
+            gap_ms < MAX_TIMER_GAP_MS,
+            "the page went {gap_ms:.0} ms without a timer callback while reading"
+        );
+        // All rows read, and the summary is the core's.
+        for (lot, sites_of_lot, wafers) in &expected.sites {
+            let cells = summary_cells(&client, lot).await;
+            assert_eq!(cells[3], sites_of_lot.to_string(), "sites of {lot}: {cells:?}");
+            assert_eq!(*wafers, FIFTY_MB_WAFERS);
+        }
+        eprintln!(
+            "50 MB file: {size} bytes, {rows} rows, read in {:.1} s (wall, file pick to summary); \
+             {} progress steps; longest pause between timer callbacks {gap_ms:.0} ms between \
+             pieces, {gap_all_ms:.0} ms with the summary's drawing; {} timer turns while reading",
+            wall.as_secs_f64(),
+            percents.len(),
+            ticks(last) - ticks(first)
+        );
+        screenshot(&client, "lots-50mb-1366").await;
+    })
+    .await;
+}

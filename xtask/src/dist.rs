@@ -1,9 +1,16 @@
 //! `cargo xtask dist [--out DIR]`: release build of the app into `dist/` (a static
 //! folder for any web server) plus the self-contained single HTML file beside it.
+//!
+//! After trunk, the build writes what only the final files can tell: the
+//! Content-Security-Policy of each page (it hashes their inline scripts, `policy`) and the
+//! offline worker's file list and build id (`offline_worker`).
+
+pub mod offline_worker;
+pub mod policy;
 
 use crate::shell::{self, root};
 use crate::tools;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 /// Builds the release app and returns the dist folder.
 pub fn run(args: &[String]) -> Result<PathBuf, String> {
@@ -38,6 +45,7 @@ fn build_release_into(dist: PathBuf) -> Result<PathBuf, String> {
         let size = std::fs::metadata(w).map(|m| m.len()).unwrap_or(0);
         eprintln!("xtask: {} is {:.0} KB", w.display(), size as f64 / 1024.0);
     }
+    // The single file is made from trunk's page and carries its own policy.
     let single = crate::single_file::build(&dist)?;
     let size = std::fs::metadata(&single).map(|m| m.len()).unwrap_or(0);
     eprintln!(
@@ -45,7 +53,23 @@ fn build_release_into(dist: PathBuf) -> Result<PathBuf, String> {
         single.display(),
         size as f64 / 1024.0
     );
+    secure_index(&dist)?;
+    // Last: the build id covers the final index.html.
+    let build_id = offline_worker::finish(&dist, &[crate::single_file::FILE_NAME])?;
+    eprintln!("xtask: offline worker keeps build {build_id}");
     Ok(dist)
+}
+
+/// Writes the served page's Content-Security-Policy into `dist/index.html`.
+fn secure_index(dist: &Path) -> Result<(), String> {
+    let path = dist.join("index.html");
+    let html = std::fs::read_to_string(&path)
+        .map_err(|e| format!("cannot read {}: {e}", path.display()))?;
+    let csp = policy::for_page(&html, policy::Delivery::Served)?;
+    let html = policy::insert(&html, &csp)?;
+    std::fs::write(&path, html).map_err(|e| format!("cannot write {}: {e}", path.display()))?;
+    eprintln!("xtask: {} allows: {csp}", path.display());
+    Ok(())
 }
 
 /// The .wasm files of a dist folder (there must be at least one).

@@ -4,14 +4,20 @@
 //!
 //! The wasm is embedded base64-encoded and unpacked in the page with the browser's
 //! `DecompressionStream`; the glue's ES-module exports are turned into plain
-//! declarations so that it can run inside one inline module script.
+//! declarations so that it can run inside one inline module script. The page carries a
+//! Content-Security-Policy that allows exactly its own inline blocks (by hash) and no fetch.
 
+use crate::dist::policy;
 use base64::Engine as _;
 use std::io::Write as _;
 use std::path::{Path, PathBuf};
 
 /// Name of the self-contained file inside the dist folder.
 pub const FILE_NAME: &str = "bandgauge-standalone.html";
+
+/// Tells the app it runs from the single file, so it registers no offline worker even when
+/// the file happens to be served over http (the worker belongs to the folder build).
+const DELIVERY_MARKER: &str = "<meta name=\"bandgauge-delivery\" content=\"single-file\">\n";
 
 /// Builds `dist/bandgauge-standalone.html` from trunk's output in `dist`.
 pub fn build(dist: &Path) -> Result<PathBuf, String> {
@@ -58,6 +64,10 @@ pub fn build(dist: &Path) -> Result<PathBuf, String> {
         return Err("dist/index.html has no </head>".into());
     };
     html.insert_str(head_end, &script);
+    html.insert_str(head_end, DELIVERY_MARKER);
+    // Its own policy: only the inline blocks above, nothing fetched from anywhere.
+    let csp = policy::for_page(&html, policy::Delivery::SingleFile)?;
+    let html = policy::insert(&html, &csp)?;
     let out = dist.join(FILE_NAME);
     std::fs::write(&out, html).map_err(|e| format!("cannot write {}: {e}", out.display()))?;
     Ok(out)

@@ -136,19 +136,12 @@ pub fn run(args: &[String]) -> Result<(), String> {
         tally.suite(
             "browser tests",
             shell::cargo()
-                .args([
-                    "test",
-                    "-p",
-                    "bandgauge-tests",
-                    "--features",
-                    "browser",
-                    "--test",
-                    "browser",
-                    "--test",
-                    "offline",
-                    "--test",
-                    "lots_browser",
-                ])
+                .args(["test", "-p", "bandgauge-tests", "--features", "browser"])
+                .args(
+                    browser_test_targets()
+                        .iter()
+                        .flat_map(|t| ["--test", t.as_str()]),
+                )
                 .env("BANDGAUGE_DIST", dist)
                 .env("BANDGAUGE_ROOT", root()),
         );
@@ -185,5 +178,48 @@ mod tests {
         let bad = "test result: FAILED. 3 passed; 2 failed; 0 ignored; 0 measured; 0 filtered out";
         assert_eq!(parse_result_line(bad), Some((3, 2, 0)));
         assert_eq!(parse_result_line("running 3 tests"), None);
+    }
+}
+
+/// The test targets of tests/Cargo.toml that need the `browser` feature: every
+/// `[[test]]` table whose `required-features` names it, so a new browser test file
+/// declared there is run without editing this list.
+fn browser_test_targets() -> Vec<String> {
+    let manifest = std::fs::read_to_string(root().join("tests/Cargo.toml")).unwrap_or_default();
+    manifest
+        .split("[[")
+        .filter(|table| table.starts_with("test]]"))
+        .filter(|table| {
+            table
+                .lines()
+                .any(|l| l.starts_with("required-features") && l.contains("\"browser\""))
+        })
+        .filter_map(|table| {
+            table.lines().find_map(|l| {
+                let value = l.strip_prefix("name")?.trim_start().strip_prefix('=')?;
+                Some(value.trim().trim_matches('"').to_string())
+            })
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod browser_targets_tests {
+    use super::browser_test_targets;
+
+    #[test]
+    fn every_declared_browser_test_is_run() {
+        let targets = browser_test_targets();
+        // The browser test files of tests/tests/ (common practice, no source: the list is the repo's own).
+        for name in ["browser", "offline", "lots_browser", "shell_browser"] {
+            assert!(
+                targets.iter().any(|t| t == name),
+                "{name} missing from {targets:?}"
+            );
+        }
+        assert!(
+            !targets.iter().any(|t| t == "hygiene"),
+            "hygiene needs no browser"
+        );
     }
 }

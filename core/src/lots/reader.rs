@@ -970,6 +970,20 @@ fn read_row<'a>(
             "empty while the other coordinate is given; give both x and y or neither".to_owned(),
         ));
     }
+    // Positions are reported in mm: a length finite in cm can overflow on the way.
+    let in_mm = |column: Column, cm: Option<f64>| match cm.map(|v| v * 10.0) {
+        Some(mm) if !mm.is_finite() => Err(reject(
+            Some(column),
+            format!(
+                "{:?} is not a finite position in mm; give a finite number (about 1e308 mm \
+                 at most)",
+                cell(column)
+            ),
+        )),
+        mm => Ok(mm),
+    };
+    let x_mm = in_mm(Column::X, x_cm)?;
+    let y_mm = in_mm(Column::Y, y_cm)?;
 
     let (dopant, dopant_from_type, relation) =
         resolve_dopant(cell(Column::Dopant), cell(Column::Type), settings, options)
@@ -1077,8 +1091,8 @@ fn read_row<'a>(
         lot,
         wafer,
         site,
-        x_mm: x_cm.map(|x| x * 10.0),
-        y_mm: y_cm.map(|y| y * 10.0),
+        x_mm,
+        y_mm,
         dopant,
         dopant_from_type,
         relation,
@@ -1177,6 +1191,34 @@ mod tests {
         assert_eq!(sniff_delimiter("lot;wafer;resistivity [ohm,cm]"), b';');
         assert_eq!(sniff_delimiter("lot,wafer"), b',');
         assert_eq!(sniff_delimiter(r#""lot;a",wafer"#), b',');
+    }
+
+    #[test]
+    fn positions_that_overflow_in_mm_are_rejected() {
+        // Fuzz finding (lot_reader): "1.7e308 cm" is a finite length, but x_mm = 10 x_cm was
+        // infinite in an accepted row.
+        let text = "lot,wafer,x,y,resistivity\nA,1,1.7e308 cm,0,10\nA,1,0,-2e307 cm,10\nA,1,1e307 cm,0,10\n";
+        let mut rejected = Vec::new();
+        let mut book = LotBook::new();
+        let options = ReadOptions {
+            default_dopant: Some("B".into()),
+        };
+        let counts = crate::lots::read_str(text, &options, &mut book, &mut |o| {
+            if let RowOutcome::Rejected(r) = o {
+                rejected.push(r.to_string());
+            }
+        })
+        .unwrap();
+        assert_eq!((counts.converted, counts.rejected), (1, 2));
+        assert_eq!(
+            rejected,
+            [
+                "line 2: x: \"1.7e308 cm\" is not a finite position in mm; give a finite number \
+                 (about 1e308 mm at most)",
+                "line 3: y: \"-2e307 cm\" is not a finite position in mm; give a finite number \
+                 (about 1e308 mm at most)"
+            ]
+        );
     }
 
     #[test]

@@ -304,7 +304,8 @@ pub enum StatsError {
     },
     /// No group varies and the test statistic is undefined.
     NoSpread,
-    /// A value is NaN or infinite.
+    /// A value is NaN or infinite, or the values are so large that a statistic of them
+    /// overflows.
     NotFinite,
 }
 
@@ -327,7 +328,10 @@ impl fmt::Display for StatsError {
             StatsError::NoSpread => f.write_str(
                 "all values are equal within each group; the test statistic is undefined",
             ),
-            StatsError::NotFinite => f.write_str("a value is not finite"),
+            StatsError::NotFinite => f.write_str(
+                "a value is not finite, or the values are too large for the test (their \
+                 variance overflows); give finite values below about 1e150",
+            ),
         }
     }
 }
@@ -363,8 +367,9 @@ pub fn ln_gamma(x: f64) -> f64 {
         return if x == f64::INFINITY { x } else { f64::NAN };
     }
     if x < 0.5 {
-        // Reflection keeps the series in its accurate range: Gamma(x) Gamma(1 - x) = pi / sin(pi x).
-        return (std::f64::consts::PI / (std::f64::consts::PI * x).sin()).ln() - ln_gamma(1.0 - x);
+        // Gamma(x) = Gamma(1 + x) / x keeps the series in its accurate range; unlike the
+        // reflection formula pi / sin(pi x) it does not overflow for a subnormal x.
+        return ln_gamma(1.0 + x) - x.ln();
     }
     let z = x - 1.0;
     let mut series = COEFFICIENTS[0];
@@ -447,7 +452,9 @@ pub fn regularized_gamma_q(a: f64, x: f64) -> f64 {
     }
     let ln_front = a * x.ln() - x - ln_gamma(a);
     if x < a + 1.0 {
-        let mut term = 1.0 / a;
+        // The series is summed times a (its first term 1/a overflows for a subnormal a) and the
+        // factor 1/a goes into the exponent.
+        let mut term = 1.0;
         let mut sum = term;
         let mut n = a;
         for _ in 0..MAX_ITERATIONS {
@@ -458,7 +465,7 @@ pub fn regularized_gamma_q(a: f64, x: f64) -> f64 {
                 break;
             }
         }
-        1.0 - sum * ln_front.exp()
+        1.0 - sum * (ln_front - a.ln()).exp()
     } else {
         let tiny = |v: f64| if v.abs() < LENTZ_TINY { LENTZ_TINY } else { v };
         let mut b = x + 1.0 - a;
@@ -481,7 +488,8 @@ pub fn regularized_gamma_q(a: f64, x: f64) -> f64 {
 }
 
 /// Cumulative distribution function of Student's t with `dof` > 0 degrees of freedom (not
-/// necessarily an integer). NaN for a NaN argument or `dof` not > 0.
+/// necessarily an integer). NaN for a NaN argument or `dof` not > 0, and for a subnormal
+/// `dof` (below 2.2e-308, where dof/2 underflows to 0).
 ///
 /// # Formula
 /// With x = dof / (dof + t^2): P(T <= t) = 1 - I_x(dof/2, 1/2)/2 for t > 0 and
@@ -496,8 +504,43 @@ pub fn student_t_cdf(t: f64, dof: f64) -> f64 {
     if t.is_infinite() {
         return if t > 0.0 { 1.0 } else { 0.0 };
     }
+    if dof > LARGE_DOF {
+        return large_dof_cdf(t, dof);
+    }
     let tail = 0.5 * regularized_incomplete_beta(0.5 * dof, 0.5, dof / (dof + t * t));
     if t > 0.0 { 1.0 - tail } else { tail }
+}
+
+/// Degrees of freedom above which Student's t is evaluated by its expansion about the normal
+/// distribution. The exact formulas take the difference of ln Gamma at dof/2 and (dof + 1)/2,
+/// which loses the digits of an ulp of ln Gamma(dof/2) (6e-11 at 1e5, all of them near 1e16,
+/// NaN near 1e219); the expansion's first omitted term is of order dof^-3, below 1e-15 here.
+const LARGE_DOF: f64 = 1e5;
+
+/// Student's t cdf for dof > [`LARGE_DOF`]: F(t) = Phi(t) - phi(t) [(t^3 + t) / (4 dof) +
+/// (5 t^5 + 16 t^3 + 3 t) / (96 dof^2)] (Abramowitz & Stegun 1964, 26.7.5), with Phi from
+/// [`regularized_gamma_q`] (Phi(t) = 1 - Q(1/2, t^2/2)/2 for t >= 0, A&S 26.2.30 and 6.5.17).
+fn large_dof_cdf(t: f64, dof: f64) -> f64 {
+    let lower_normal_tail = 0.5 * regularized_gamma_q(0.5, 0.5 * t * t);
+    let t2 = t * t;
+    let phi = normal_pdf(t);
+    // phi is 0 beyond |t| of about 38.6, before the powers of t can overflow.
+    let correction = if phi == 0.0 {
+        0.0
+    } else {
+        phi * ((t2 * t + t) / (4.0 * dof)
+            + (5.0 * t2 * t2 * t + 16.0 * t2 * t + 3.0 * t) / (96.0 * dof * dof))
+    };
+    if t >= 0.0 {
+        1.0 - lower_normal_tail - correction
+    } else {
+        lower_normal_tail - correction
+    }
+}
+
+/// The standard normal density.
+fn normal_pdf(t: f64) -> f64 {
+    (-0.5 * t * t).exp() / (2.0 * std::f64::consts::PI).sqrt()
 }
 
 /// Two-sided p-value P(|T| >= |t|) of Student's t with `dof` degrees of freedom, computed
@@ -515,6 +558,9 @@ pub fn student_t_two_sided_p(t: f64, dof: f64) -> f64 {
     if t.is_infinite() {
         return 0.0;
     }
+    if dof > LARGE_DOF {
+        return 2.0 * large_dof_cdf(-t.abs(), dof);
+    }
     regularized_incomplete_beta(0.5 * dof, 0.5, dof / (dof + t * t))
 }
 
@@ -528,6 +574,15 @@ pub fn student_t_two_sided_p(t: f64, dof: f64) -> f64 {
 pub fn student_t_pdf(t: f64, dof: f64) -> f64 {
     if t.is_nan() || !is_positive(dof) {
         return f64::NAN;
+    }
+    if dof > LARGE_DOF {
+        // The derivative of the expansion in `large_dof_cdf` to order 1/dof (A&S 26.7.5).
+        let (t2, phi) = (t * t, normal_pdf(t));
+        return if phi == 0.0 {
+            0.0
+        } else {
+            phi * (1.0 + (t2 * t2 - 2.0 * t2 - 1.0) / (4.0 * dof))
+        };
     }
     let ln_norm =
         ln_gamma(0.5 * (dof + 1.0)) - ln_gamma(0.5 * dof) - 0.5 * (dof * std::f64::consts::PI).ln();
@@ -577,7 +632,7 @@ pub fn student_t_quantile(probability: f64, dof: f64) -> f64 {
 }
 
 /// Survival function P(X >= x) of the chi-square distribution with `dof` > 0 degrees of
-/// freedom.
+/// freedom (NaN for a subnormal `dof`, below 2.2e-308, where dof/2 underflows to 0).
 ///
 /// # Formula
 /// Q(dof/2, x/2) ([`regularized_gamma_q`]); 1 for x <= 0.
@@ -643,14 +698,19 @@ pub fn welch_t_test(a: &[f64], b: &[f64]) -> Result<WelchTest, StatsError> {
     let va = ma.sample_std().unwrap_or(0.0).powi(2) / a.len() as f64;
     let vb = mb.sample_std().unwrap_or(0.0).powi(2) / b.len() as f64;
     let variance = va + vb;
+    let difference = mb.mean().unwrap_or(0.0) - ma.mean().unwrap_or(0.0);
+    if !(variance.is_finite() && difference.is_finite()) {
+        return Err(StatsError::NotFinite);
+    }
     if !is_positive(variance) {
         return Err(StatsError::NoSpread);
     }
     let standard_error = variance.sqrt();
-    let difference = mb.mean().unwrap_or(0.0) - ma.mean().unwrap_or(0.0);
     let t = difference / standard_error;
-    let dof =
-        variance * variance / (va * va / (a.len() - 1) as f64 + vb * vb / (b.len() - 1) as f64);
+    // The Welch-Satterthwaite formula with each variance divided by their sum, so that no
+    // square of a variance is formed (it overflows for values above about 1e77).
+    let (wa, wb) = (va / variance, vb / variance);
+    let dof = 1.0 / (wa * wa / (a.len() - 1) as f64 + wb * wb / (b.len() - 1) as f64);
     let half_width = student_t_quantile(0.975, dof) * standard_error;
     Ok(WelchTest {
         difference,
@@ -758,4 +818,84 @@ pub fn kruskal_wallis(groups: &[&[f64]]) -> Result<KruskalWallis, StatsError> {
         groups: groups.len(),
         values: all.len(),
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn welch_refuses_values_whose_variance_overflows() {
+        // Each value is finite, but their squares are not: the test has no finite answer.
+        let huge = [0.0, 1e200];
+        assert_eq!(welch_t_test(&[0.0, 1.0], &huge), Err(StatsError::NotFinite));
+        let large = welch_t_test(&[0.0, 1.0], &[0.0, 1e150]).expect("finite variance");
+        // One group dominates the variance: dof is that group's n - 1.
+        assert_eq!(large.dof, 1.0);
+        assert!(large.p_value.is_finite() && large.ci95_high.is_finite());
+    }
+
+    #[test]
+    fn student_t_with_very_many_degrees_of_freedom_is_the_normal_distribution() {
+        // Source: Abramowitz & Stegun (1964), Table 26.1: Phi(1) = 0.8413447461,
+        // Phi(-3) = 0.0013498980 (1 - 0.9986501020); the t distribution tends to it as dof grows.
+        for dof in [1e10, 1e15, 1e20, 1e219, 1e300] {
+            assert!(
+                (student_t_cdf(1.0, dof) - 0.841_344_746_1).abs() < 1e-9,
+                "{dof:e}"
+            );
+            assert!(
+                (student_t_cdf(-3.0, dof) - 0.001_349_898_0).abs() < 1e-9,
+                "{dof:e}"
+            );
+            // Source: A&S Table 26.1, the 0.975 point of the normal distribution: 1.959964.
+            assert!(
+                (student_t_quantile(0.975, dof) - 1.959_964).abs() < 1e-6,
+                "{dof:e}"
+            );
+            assert!(
+                (student_t_two_sided_p(1.959_964, dof) - 0.05).abs() < 1e-6,
+                "{dof:e}"
+            );
+        }
+        // Far in the tails the density is 0 and the powers of t must not make it NaN.
+        assert_eq!(student_t_cdf(9.2e153, 2.8e219), 1.0);
+        assert_eq!(student_t_pdf(9.2e153, 2.8e219), 0.0);
+        // Both sides of the switch agree to the precision of the exact formula there.
+        for t in [-4.0, -1.0, 0.3, 2.5] {
+            let below = student_t_cdf(t, LARGE_DOF);
+            let above = student_t_cdf(t, LARGE_DOF * (1.0 + 1e-9));
+            assert!((below - above).abs() < 1e-10, "t {t}: {below} {above}");
+            let (p_below, p_above) = (
+                student_t_pdf(t, LARGE_DOF),
+                student_t_pdf(t, LARGE_DOF * (1.0 + 1e-9)),
+            );
+            assert!(
+                (p_below - p_above).abs() < 1e-10,
+                "pdf t {t}: {p_below} {p_above}"
+            );
+        }
+    }
+
+    #[test]
+    fn ln_gamma_of_tiny_arguments_is_minus_ln_x() {
+        // Gamma(x) -> 1/x as x -> 0 (A&S 6.1.34: 1/Gamma(x) = x + gamma x^2 + ...).
+        for x in [5e-324, 1e-310, 1e-100] {
+            let expected = -f64::ln(x);
+            assert!((ln_gamma(x) - expected).abs() <= 1e-12 * expected, "{x:e}");
+        }
+        // Gamma(0.25) = 3.6256099082219083 (A&S Table 6.1, 4 Gamma(5/4)).
+        assert!((ln_gamma(0.25) - 3.625_609_908_221_908_f64.ln()).abs() < 1e-14);
+    }
+
+    #[test]
+    fn upper_gamma_takes_a_subnormal_shape() {
+        // For small a and x, P(a, x) = x^a e^-x / Gamma(a + 1) (1 + O(x)) (A&S 6.5.29), so
+        // Q = 1 - P is about -a ln x: 6.7e-322 here, 0 to double precision.
+        let q = regularized_gamma_q(5e-324, 2.4e-59);
+        assert!(q.abs() < 1e-300, "{q}");
+        // The rewritten series gives the same value as before at ordinary arguments:
+        // Q(1, x) = e^-x (A&S 6.5.2 with a = 1).
+        assert!((regularized_gamma_q(1.0, 0.5) - (-0.5f64).exp()).abs() < 1e-15);
+    }
 }

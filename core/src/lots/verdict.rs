@@ -85,13 +85,25 @@ impl fmt::Display for SpecError {
             SpecError::Limit { side, message } => write!(f, "{side}: {message}"),
             SpecError::Order { min, max } => write!(
                 f,
-                "MIN {min:e} is not below MAX {max:e}; give the lower limit first"
+                "MIN {} is not below MAX {}; give the lower limit first",
+                short(*min),
+                short(*max)
             ),
         }
     }
 }
 
 impl std::error::Error for SpecError {}
+
+/// A limit as an engineer writes it: plain from 1e-3 to 1e6 (`12`, `0.8`), else with an
+/// exponent (`1e15`, `3.5e14`).
+fn short(value: f64) -> String {
+    if value == 0.0 || (1e-3..1e6).contains(&value.abs()) {
+        format!("{value}")
+    } else {
+        format!("{value:e}")
+    }
+}
 
 /// The acceptance window on one quantity; either limit may be open.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
@@ -116,9 +128,13 @@ impl SpecWindow {
             if let Some(v) = value
                 && !(v.is_finite() && v > 0.0)
             {
+                let unit = quantity.unit();
                 return Err(SpecError::Limit {
                     side,
-                    message: format!("{v} is not allowed; give a finite value > 0"),
+                    message: format!(
+                        "{} {unit} is not allowed; give a finite value > 0 {unit}",
+                        short(v)
+                    ),
                 });
             }
         }
@@ -294,4 +310,30 @@ pub struct Judgement {
     pub margin_percent: f64,
     /// The nearer limit.
     pub nearer_limit: f64,
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn refusals_show_the_limits_as_written_with_their_unit() {
+        let message = |q, text| SpecWindow::parse(q, text).unwrap_err().to_string();
+        assert_eq!(
+            message(SpecQuantity::Resistivity, "12:8"),
+            "MIN 12 is not below MAX 8; give the lower limit first"
+        );
+        assert_eq!(
+            message(SpecQuantity::Density, "5.5e14:3.5e14"),
+            "MIN 5.5e14 is not below MAX 3.5e14; give the lower limit first"
+        );
+        assert_eq!(
+            message(SpecQuantity::Resistivity, "0:5"),
+            "MIN: 0 ohm-cm is not allowed; give a finite value > 0 ohm-cm"
+        );
+        assert_eq!(
+            message(SpecQuantity::Density, ":-1e15"),
+            "MAX: -1e15 cm^-3 is not allowed; give a finite value > 0 cm^-3"
+        );
+    }
 }
