@@ -188,3 +188,44 @@ pub async fn run_script(client: &Client, script: &str) {
         .await
         .unwrap_or_else(|e| panic!("script failed: {e}"));
 }
+
+/// The value of the input `[data-testid=id]` (empty when it has none).
+pub async fn value_of(client: &Client, id: &str) -> String {
+    by_testid(client, id)
+        .await
+        .prop("value")
+        .await
+        .ok()
+        .flatten()
+        .unwrap_or_default()
+}
+
+/// A file written under the temp folder for the page to open through a file input;
+/// removed (with its folder, once empty) when dropped.
+pub struct TempFile(std::path::PathBuf);
+
+impl TempFile {
+    /// Writes `text` to `<temp>/bandgauge-<purpose>-<pid>/<name>`.
+    pub fn new(purpose: &str, name: &str, text: &str) -> TempFile {
+        let dir = std::env::temp_dir().join(format!("bandgauge-{purpose}-{}", std::process::id()));
+        std::fs::create_dir_all(&dir).expect("create temp folder");
+        let path = dir.join(name);
+        std::fs::write(&path, text).unwrap_or_else(|e| panic!("write {}: {e}", path.display()));
+        TempFile(path)
+    }
+
+    /// The path as text, for `send_keys` into a file input.
+    pub fn path(&self) -> String {
+        self.0.to_str().expect("a UTF-8 temp path").to_string()
+    }
+}
+
+impl Drop for TempFile {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_file(&self.0);
+        // The folder goes with its last file (removing a folder still in use fails harmlessly).
+        if let Some(dir) = self.0.parent() {
+            let _ = std::fs::remove_dir(dir);
+        }
+    }
+}

@@ -21,7 +21,7 @@ fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {
         if path.is_dir() {
             if !matches!(
                 name,
-                "target" | "dist" | "artifacts" | "node_modules" | ".git" | "fuzz"
+                "target" | "dist" | "artifacts" | "node_modules" | ".git"
             ) {
                 rust_files(&path, out);
             }

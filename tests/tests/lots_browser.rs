@@ -8,7 +8,7 @@ use bandgauge_core::lots::{
     LotBook, ReadOptions, RowCounts, RowOutcome, SpecQuantity, SpecWindow, Verdict, read_str,
 };
 use bandgauge_tests::browser::{by_testid, screenshot, text_until, with_browser};
-use bandgauge_tests::ui::{canvas_drawn, choose, click, run_script, text_of};
+use bandgauge_tests::ui::{TempFile, canvas_drawn, choose, click, run_script, text_of};
 use fantoccini::{Client, Locator};
 use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
@@ -106,33 +106,6 @@ fn demo_texts() -> Vec<(String, String)> {
             (name.to_string(), text)
         })
         .collect()
-}
-
-/// A file written under the temp folder for the page to import; removed when dropped.
-struct TempFile(PathBuf);
-
-impl TempFile {
-    fn new(name: &str, text: &str) -> TempFile {
-        let dir = std::env::temp_dir().join(format!("bandgauge-lots-{}", std::process::id()));
-        std::fs::create_dir_all(&dir).expect("create temp folder");
-        let path = dir.join(name);
-        std::fs::write(&path, text).expect("write temp lot file");
-        TempFile(path)
-    }
-
-    fn path(&self) -> String {
-        self.0.to_str().expect("a UTF-8 temp path").to_string()
-    }
-}
-
-impl Drop for TempFile {
-    fn drop(&mut self) {
-        let _ = std::fs::remove_file(&self.0);
-        // The folder goes with its last file (removing a folder still in use fails harmlessly).
-        if let Some(dir) = self.0.parent() {
-            let _ = std::fs::remove_dir(dir);
-        }
-    }
 }
 
 /// Polls `[data-testid=lots-status]` until the page is done reading and has read `rows` rows.
@@ -429,7 +402,7 @@ const DISPLAY_REL_TOL: f64 = 6e-4;
 async fn imported_file_lists_bad_rows_by_line_and_summarises_the_good_ones() {
     with_browser(LAPTOP.0, LAPTOP.1, |client, base| async move {
         let name = "k9-0101-bad-rows.csv";
-        let file = TempFile::new(name, FILE_WITH_BAD_ROWS);
+        let file = TempFile::new("lots", name, FILE_WITH_BAD_ROWS);
         let expected = expected_for(&[(name.to_string(), FILE_WITH_BAD_ROWS.to_string())], None);
         // By construction of the file above: lines 4 (not a number), 6 (no wafer), 9 (negative).
         let lines: Vec<u64> = expected.rejected.iter().map(|(_, l)| *l).collect();
@@ -526,7 +499,7 @@ async fn markup_in_a_lot_id_is_shown_as_text() {
              {MARKUP_LOT},01,1,0,0,P,10.1\n{MARKUP_LOT},01,2,30,0,P,10.3\n\
              {MARKUP_LOT},02,1,0,0,P,10.2\n{MARKUP_LOT},02,2,30,0,P,9.9\n"
         );
-        let file = TempFile::new("markup-lot.csv", &text);
+        let file = TempFile::new("lots", "markup-lot.csv", &text);
         open_lots(&client, &base).await;
         run_script(
             &client,
@@ -601,7 +574,7 @@ async fn a_large_file_is_read_in_pieces_with_visible_progress() {
     with_browser(LAPTOP.0, LAPTOP.1, |client, base| async move {
         let text = large_file();
         let rows = (LARGE_LOTS * LARGE_WAFERS * LARGE_SITES_PER_WAFER) as u64;
-        let file = TempFile::new("large-lots.csv", &text);
+        let file = TempFile::new("lots", "large-lots.csv", &text);
         open_lots(&client, &base).await;
         // Record every status the page shows, whether the progress bar is there, and how many
         // timer callbacks the page ran (it can only run them between pieces of work).
@@ -735,7 +708,7 @@ async fn a_50_mb_file_is_read_with_progress_and_the_page_stays_responsive() {
         assert_eq!(expected.counts.read, rows);
         assert_eq!(expected.counts.rejected, 0);
         let size = text.len();
-        let file = TempFile::new("fifty-mb-lots.csv", &text);
+        let file = TempFile::new("lots", "fifty-mb-lots.csv", &text);
         drop(text);
         open_lots(&client, &base).await;
         // Every timer callback records the longest pause since the one before, and every status

@@ -11,7 +11,7 @@ use bandgauge_core::materials;
 use bandgauge_core::neutrality::{self, SolveOptions};
 use bandgauge_tests::browser::{by_testid, retype, screenshot, text_until, with_browser};
 use bandgauge_tests::ui::{
-    click, downloads, last_blob_text, record_downloads, run_script, text_of,
+    TempFile, click, downloads, last_blob_text, record_downloads, run_script, text_of, value_of,
 };
 use fantoccini::Client;
 use fantoccini::wd::{PrintConfiguration, PrintSize};
@@ -116,46 +116,13 @@ async fn next_notice(client: &Client, count: usize) -> String {
     }
 }
 
-/// The value of the input `[data-testid=id]`.
-async fn value_of(client: &Client, id: &str) -> String {
-    by_testid(client, id)
-        .await
-        .prop("value")
-        .await
-        .ok()
-        .flatten()
-        .unwrap_or_default()
-}
-
-/// A file written under the temp folder for the page to open; removed when dropped.
-struct TempFile(PathBuf);
-
-impl TempFile {
-    fn new(name: &str, text: &str) -> TempFile {
-        let dir = std::env::temp_dir().join(format!("bandgauge-record-{}", std::process::id()));
-        std::fs::create_dir_all(&dir).expect("create temp folder");
-        let path = dir.join(name);
-        std::fs::write(&path, text).expect("write temp record");
-        TempFile(path)
-    }
-}
-
-impl Drop for TempFile {
-    fn drop(&mut self) {
-        let _ = std::fs::remove_file(&self.0);
-        if let Some(dir) = self.0.parent() {
-            let _ = std::fs::remove_dir(dir);
-        }
-    }
-}
-
 /// Opens a record file through the header's file input, as a user picking it would.
 async fn open_record_file(client: &Client, name: &str, text: &str) -> String {
     let before = notices(client).await.len();
-    let file = TempFile::new(name, text);
+    let file = TempFile::new("record", name, text);
     by_testid(client, "record-file")
         .await
-        .send_keys(file.0.to_str().expect("a UTF-8 temp path"))
+        .send_keys(&file.path())
         .await
         .expect("pick the record");
     next_notice(client, before).await

@@ -7,7 +7,7 @@ use bandgauge_tests::browser::{
     StaticServer, StoppableServer, by_testid, dist_dir, retype, screenshot, text_until,
     with_browser, with_browser_at,
 };
-use bandgauge_tests::ui::{click, run_script, text_of};
+use bandgauge_tests::ui::{click, run_script, text_of, value_of};
 use fantoccini::Client;
 use std::collections::BTreeSet;
 use std::path::Path;
@@ -89,16 +89,6 @@ async fn loaded_urls(client: &Client) -> Vec<String> {
         .await
         .expect("read resource timing");
     serde_json::from_value(v).expect("a list of URLs")
-}
-
-async fn input_value(client: &Client, id: &str) -> String {
-    by_testid(client, id)
-        .await
-        .prop("value")
-        .await
-        .ok()
-        .flatten()
-        .unwrap_or_default()
 }
 
 /// The saved inputs in localStorage, if any.
@@ -444,7 +434,7 @@ async fn forgetting_saved_inputs_clears_storage_and_resets_fields() {
             tokio::time::sleep(Duration::from_millis(50)).await;
         }
         client.goto(&base).await.expect("reload without the link");
-        assert_eq!(input_value(&client, "temperature").await, "350 K");
+        assert_eq!(value_of(&client, "temperature").await, "350 K");
 
         click(&client, "forget-saved").await;
         let notice = text_until(&client, "notices", |t| t.contains("forgotten")).await;
@@ -452,12 +442,12 @@ async fn forgetting_saved_inputs_clears_storage_and_resets_fields() {
             notice.contains("every field is back to its default"),
             "{notice}"
         );
-        assert_eq!(input_value(&client, "temperature").await, "300 K");
+        assert_eq!(value_of(&client, "temperature").await, "300 K");
         assert_eq!(saved_state(&client).await, None);
         screenshot(&client, "shell-forget-saved").await;
 
         client.goto(&base).await.expect("reload without the link");
-        assert_eq!(input_value(&client, "temperature").await, "300 K");
+        assert_eq!(value_of(&client, "temperature").await, "300 K");
         computes_ni_at_300k(&client).await;
         assert_eq!(
             saved_state(&client).await,
@@ -522,7 +512,7 @@ async fn a_panic_shows_a_panel_whose_start_over_restores_the_page() {
             |v| v.as_bool() == Some(true),
         )
         .await;
-        assert_eq!(input_value(&client, "temperature").await, "350 K");
+        assert_eq!(value_of(&client, "temperature").await, "350 K");
 
         client
             .goto(&format!("{base}?panic-drill"))
@@ -543,7 +533,7 @@ async fn a_panic_shows_a_panel_whose_start_over_restores_the_page() {
         .await;
         let url = client.current_url().await.expect("url");
         assert!(!url.as_str().contains("panic-drill"), "{url}");
-        assert_eq!(input_value(&client, "temperature").await, "300 K");
+        assert_eq!(value_of(&client, "temperature").await, "300 K");
         assert_eq!(saved_state(&client).await, None);
         computes_ni_at_300k(&client).await;
         let panels = client

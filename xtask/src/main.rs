@@ -4,6 +4,7 @@
 
 mod bench;
 mod dist;
+mod fuzz;
 mod serve;
 mod shell;
 mod single_file;
@@ -21,6 +22,9 @@ commands:
   test               every check: fmt, clippy (native and wasm32), unit and reference tests,
                      the wasm release build and the browser tests; ends with 'N passed, N failed'
   bench              criterion benchmarks of the core and in-browser timings, as one table
+  fuzz [--seconds N] [TARGET...]
+                     run the cargo-fuzz targets (all, or those named) for N s each (default 60),
+                     as one table; fails on any crashing input and names its file
 ";
 
 fn main() -> ExitCode {
@@ -34,6 +38,7 @@ fn main() -> ExitCode {
         "dist" => dist::run(rest).map(|_| ()),
         "test" => test::run(rest),
         "bench" => bench::run(rest),
+        "fuzz" => fuzz::run(rest),
         "help" | "--help" | "-h" => {
             print!("{USAGE}");
             Ok(())
