@@ -1698,7 +1698,7 @@ mod tests {
         );
         assert_eq!(
             lots.results.sections[1].rows[0].cells[0].shown,
-            "resistivity_ohm_cm 8 to 12 ohm-cm"
+            "resistivity 8 to 12 ohm-cm"
         );
     }
 
@@ -1800,11 +1800,11 @@ mod tests {
         let record = read_record(&text).expect("a consistent record");
         let message = replay(&record).unwrap_err().to_string();
         assert!(
-            message.starts_with("result 'Spec window' › 'Spec window' › 'As read': the record says resistivity_ohm_cm 8 to 12 ohm-cm, this bandgauge"),
+            message.starts_with("result 'Spec window' › 'Spec window' › 'As read': the record says resistivity 8 to 12 ohm-cm, this bandgauge"),
             "{message}"
         );
         assert!(
-            message.contains("computes resistivity_ohm_cm 8 to 10 ohm-cm;"),
+            message.contains("computes resistivity 8 to 10 ohm-cm;"),
             "{message}"
         );
     }

@@ -177,7 +177,10 @@ fn table_output_states_the_model_once_and_the_verdicts() {
         run.stdout
             .contains("605 rows read, 598 converted, 7 rejected")
     );
-    assert!(run.stdout.contains("Spec window: density_cm3"));
+    assert!(
+        run.stdout
+            .contains("Spec window: dopant density 3.6e14 to 5.6e14 cm^-3")
+    );
     for id in ["C2-4417", "C2-4418", "C2-4421", "C2-4425"] {
         assert!(run.stdout.contains(id), "{id}");
     }

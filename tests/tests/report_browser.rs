@@ -252,7 +252,7 @@ async fn lot_comparison_report_prints_the_spec_window_and_every_verdict() {
 
         let text = print_pdf(&client, "report-lots").await;
         assert_has(&text, "Spec window");
-        assert_has(&text, "resistivity_ohm_cm 8 to 12 ohm-cm");
+        assert_has(&text, "resistivity 8 to 12 ohm-cm");
         assert_has(&text, "Lower limit 8");
         assert_has(&text, "Upper limit 12");
         // Each lot's row prints as one line of the lots table: the lot, its dopant, its

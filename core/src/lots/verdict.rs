@@ -28,6 +28,14 @@ impl SpecQuantity {
         }
     }
 
+    /// Plain name for reports: "resistivity" or "dopant density".
+    pub fn label(self) -> &'static str {
+        match self {
+            SpecQuantity::Resistivity => "resistivity",
+            SpecQuantity::Density => "dopant density",
+        }
+    }
+
     /// Unit symbol: "ohm-cm" or "cm^-3".
     pub fn unit(self) -> &'static str {
         match self {
@@ -251,11 +259,20 @@ impl SpecWindow {
 
 impl fmt::Display for SpecWindow {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        let side = |v: Option<f64>| v.map_or_else(|| "open".to_owned(), |v| format!("{v}"));
+        // Densities read as 3.6e14, resistivities as 8 or 0.012: exponent form only when
+        // the plain form would be long.
+        let number = |v: f64| {
+            if v != 0.0 && !(1e-3..1e5).contains(&v.abs()) {
+                format!("{v:e}")
+            } else {
+                format!("{v}")
+            }
+        };
+        let side = |v: Option<f64>| v.map_or_else(|| "open".to_owned(), number);
         write!(
             f,
             "{} {} to {} {}",
-            self.quantity.field(),
+            self.quantity.label(),
             side(self.min),
             side(self.max),
             self.quantity.unit()
@@ -315,6 +332,23 @@ pub struct Judgement {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn windows_print_their_quantity_limits_and_unit() {
+        let shown = |q, text| SpecWindow::parse(q, text).unwrap().to_string();
+        assert_eq!(
+            shown(SpecQuantity::Resistivity, "8:12"),
+            "resistivity 8 to 12 ohm-cm"
+        );
+        assert_eq!(
+            shown(SpecQuantity::Density, "3.6e14:5.6e14"),
+            "dopant density 3.6e14 to 5.6e14 cm^-3"
+        );
+        assert_eq!(
+            shown(SpecQuantity::Resistivity, "0.0005:"),
+            "resistivity 5e-4 to open ohm-cm"
+        );
+    }
 
     #[test]
     fn refusals_show_the_limits_as_written_with_their_unit() {
