@@ -337,7 +337,7 @@ pub fn request_from_inputs(c: &CarrierInputs) -> Result<Request, String> {
 /// `(quantity, model, source)` of every model an outcome used, with the mobility notes: what
 /// the caution lists and the sign-off report prints.
 pub fn models_used(o: &Outcome) -> Vec<(String, String, String)> {
-    let used = match &o.transport {
+    let used: &[_] = match &o.transport {
         Ok(t) => &t.models,
         Err(_) => &o.equilibrium.models,
     };

@@ -84,10 +84,10 @@ pub struct SitePoint {
     pub file: usize,
     /// Line number.
     pub line: u64,
-    /// Lot.
-    pub lot: String,
-    /// Wafer.
-    pub wafer: String,
+    /// Lot (shared by the sites of a lot read in a row: one allocation per run, not per site).
+    pub lot: Rc<str>,
+    /// Wafer (shared likewise).
+    pub wafer: Rc<str>,
     /// Site.
     pub site: String,
     /// x, mm.
@@ -284,11 +284,22 @@ fn collect<'a>(
     move |outcome| match outcome {
         RowOutcome::Converted(site) => {
             if sites.len() < MAX_KEPT_SITES {
+                // Files list a lot's and a wafer's sites together: share the previous site's
+                // text when it is the same.
+                let previous = sites.last();
+                let lot = match previous {
+                    Some(p) if *p.lot == *site.lot => Rc::clone(&p.lot),
+                    _ => Rc::from(site.lot),
+                };
+                let wafer = match previous {
+                    Some(p) if *p.wafer == *site.wafer => Rc::clone(&p.wafer),
+                    _ => Rc::from(site.wafer),
+                };
                 sites.push(SitePoint {
                     file,
                     line: site.line,
-                    lot: site.lot.to_owned(),
-                    wafer: site.wafer.to_owned(),
+                    lot,
+                    wafer,
                     site: site.site.to_owned(),
                     x_mm: site.x_mm,
                     y_mm: site.y_mm,
@@ -575,7 +586,7 @@ pub fn wafer_map(
     let quantity = spec.map_or(SpecQuantity::Resistivity, SpecWindow::quantity);
     let marks: Vec<Mark> = sites
         .iter()
-        .filter(|s| s.lot == lot && s.wafer == wafer)
+        .filter(|s| *s.lot == *lot && *s.wafer == *wafer)
         .filter_map(|s| {
             let (x, y) = (s.x_mm?, s.y_mm?);
             let value = match quantity {

@@ -336,7 +336,7 @@ fn sweep_row_csv(state: &Equilibrium) -> Result<Vec<String>, serde_json::Error> 
 /// The caution line, naming the model and the citation keys of its sources.
 fn caution(state: &Equilibrium) -> String {
     let mut keys: Vec<&str> = Vec::new();
-    for model in &state.models {
+    for model in state.models.iter() {
         if let Some(key) = citation_key(&model.source)
             && !keys.contains(&key)
         {
@@ -422,7 +422,7 @@ fn table(request: &CarriersRequest, state: &Equilibrium) -> String {
 
     text.push_str("\nModels\n");
     let mut models = Table::new(&["quantity", "model", "source"], &[false, false, false]);
-    for model in &state.models {
+    for model in state.models.iter() {
         models.row([
             model.quantity.to_string(),
             model.model.to_string(),

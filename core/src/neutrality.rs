@@ -41,6 +41,7 @@ use std::borrow::Cow;
 use std::fmt;
 
 use serde::{Deserialize, Serialize};
+use std::sync::Arc;
 
 use crate::bgn::BgnModel;
 use crate::constants::thermal_energy_ev;
@@ -124,8 +125,9 @@ pub struct Equilibrium {
     pub degenerate: bool,
     /// |positive - negative charge| / max of the two at the solution.
     pub relative_residual: f64,
-    /// Every model and parameter source the result depends on.
-    pub models: Vec<ModelUsed>,
+    /// Every model and parameter source the result depends on (shared: every point of a
+    /// sweep names the same models).
+    pub models: Arc<[ModelUsed]>,
 }
 
 /// Ionization state of one dopant species.
@@ -429,8 +431,6 @@ struct Level {
     kind: DopantKind,
     /// b N, the part that follows the occupancy of the level, cm^-3.
     localized: f64,
-    /// ln (b N) (-inf when zero).
-    ln_localized: f64,
     ln_degeneracy: f64,
     /// E(N) from the band edge, eV.
     ionization_energy_ev: f64,
@@ -455,6 +455,8 @@ pub(crate) struct Problem<'a> {
     deepest_level_ev: f64,
     ln_nc_300k: f64,
     ln_nv_300k: f64,
+    /// What every result of this problem names, built once.
+    models: Arc<[ModelUsed]>,
 }
 
 /// h(u) and its derivative, with the pieces the result needs.
@@ -560,8 +562,7 @@ impl<'a> Problem<'a> {
             levels.push(Level {
                 kind: d.dopant.kind,
                 localized,
-                ln_localized: localized.ln(),
-                ln_degeneracy: d.dopant.degeneracy.ln(),
+                ln_degeneracy: ln_degeneracy(d.dopant.degeneracy),
                 ionization_energy_ev,
                 effective,
             });
@@ -597,7 +598,7 @@ impl<'a> Problem<'a> {
                 material: material.id.clone(),
             });
         }
-        Ok(Problem {
+        let mut problem = Problem {
             material,
             doping,
             options,
@@ -610,7 +611,10 @@ impl<'a> Problem<'a> {
             deepest_level_ev,
             ln_nc_300k: material.nc.at_300k_cm3.ln(),
             ln_nv_300k: material.nv.at_300k_cm3.ln(),
-        })
+            models: Arc::new([]),
+        };
+        problem.models = problem.models_used().into();
+        Ok(problem)
     }
 
     fn frame(&self, temperature_k: f64) -> Result<Frame, CarrierError> {
@@ -742,20 +746,22 @@ impl<'a> Problem<'a> {
             neg.add(self.fixed_acceptors_cm3.ln(), 0.0);
         }
         for l in &self.levels {
-            if l.ln_localized == f64::NEG_INFINITY {
+            if l.localized == 0.0 {
                 continue;
             }
+            // Taken here, not when the problem is prepared: this form is the rare one.
+            let ln_localized = l.localized.ln();
             let e = l.ionization_energy_ev / f.kt_ev;
             match l.kind {
                 DopantKind::Donor => {
                     // (E_F - E_D)/kT = u - gap + e
                     let (sp, lg) = softplus_and_logistic(l.ln_degeneracy + eta_n + e);
-                    pos.add(l.ln_localized - sp, -lg);
+                    pos.add(ln_localized - sp, -lg);
                 }
                 DopantKind::Acceptor => {
                     // (E_A - E_F)/kT = e - u
                     let (sp, lg) = softplus_and_logistic(l.ln_degeneracy + e + eta_p);
-                    neg.add(l.ln_localized - sp, lg);
+                    neg.add(ln_localized - sp, lg);
                 }
             }
         }
@@ -801,7 +807,7 @@ impl<'a> Problem<'a> {
         let shallowest = self
             .levels
             .iter()
-            .filter(|l| l.kind == kind && l.ln_localized > f64::NEG_INFINITY)
+            .filter(|l| l.kind == kind && l.localized > 0.0)
             .map(|l| l.ionization_energy_ev / f.kt_ev - l.ln_degeneracy)
             .fold(f64::INFINITY, f64::min);
         if shallowest.is_finite() {
@@ -947,7 +953,15 @@ impl<'a> Problem<'a> {
         }
         let ln_ni_effective = 0.5 * (f.ln_nc + f.ln_nv - f.gap);
         let net_ionized = (ionized_donors - ionized_acceptors).abs();
-        let regime = if ln_ni_effective > net_ionized.ln() {
+        let effective_intrinsic_cm3 = ln_ni_effective.exp();
+        // Compared in logarithms where the intrinsic density leaves the f64 range.
+        let intrinsic_wins =
+            if effective_intrinsic_cm3.is_normal() && effective_intrinsic_cm3.is_finite() {
+                effective_intrinsic_cm3 > net_ionized
+            } else {
+                ln_ni_effective > net_ionized.ln()
+            };
+        let regime = if intrinsic_wins {
             Regime::Intrinsic
         } else {
             let (total, ionized) = if self.donors_cm3 >= self.acceptors_cm3 {
@@ -970,7 +984,7 @@ impl<'a> Problem<'a> {
             nc_cm3: f.nc,
             nv_cm3: f.nv,
             intrinsic_cm3: f.ln_ni_model.exp(),
-            effective_intrinsic_cm3: ln_ni_effective.exp(),
+            effective_intrinsic_cm3,
             electrons_cm3: electrons,
             holes_cm3: holes,
             log10_electrons_cm3: ln_n * std::f64::consts::LOG10_E,
@@ -985,7 +999,7 @@ impl<'a> Problem<'a> {
             regime,
             degenerate: eta_n > -DEGENERACY_MARGIN_KT || eta_p > -DEGENERACY_MARGIN_KT,
             relative_residual: -(-e.h.abs()).exp_m1(),
-            models: self.models_used(),
+            models: Arc::clone(&self.models),
         }
     }
 
@@ -1069,29 +1083,26 @@ impl<'a> Problem<'a> {
             description.push_str("; merged with the band, fully ionized: ");
             push_symbols(&mut description, merged.map(|(d, _)| d));
         }
-        // Room for two or three source texts without growing.
-        let mut source = String::with_capacity(256);
-        match model {
+        let source = match model {
             IonizationModel::Altermatt => {
-                self.push_distinct_sources(&mut source, model, |d| {
-                    d.altermatt.as_ref().map(|p| p.source.as_ref())
-                });
+                self.distinct_sources(model, |d| d.altermatt.as_ref().map(|p| &p.source))
             }
             IonizationModel::PearsonBardeen => {
+                let levels = self.distinct_sources(model, |d| Some(&d.source));
+                let mut text = String::with_capacity(256);
                 if let Some(p) = &self.material.pearson_bardeen {
-                    source.push_str(&p.source);
+                    text.push_str(&p.source);
                 }
-                source.push_str("; E0: ");
-                self.push_distinct_sources(&mut source, model, |d| Some(d.source.as_str()));
+                text.push_str("; E0: ");
+                text.push_str(&levels);
+                Cow::Owned(text)
             }
-            IonizationModel::Dilute => {
-                self.push_distinct_sources(&mut source, model, |d| Some(d.source.as_str()));
-            }
-        }
+            IonizationModel::Dilute => self.distinct_sources(model, |d| Some(&d.source)),
+        };
         Some(ModelUsed {
             quantity: "dopant ionization".into(),
             model: Cow::Owned(description),
-            source: Cow::Owned(source),
+            source,
         })
     }
 
@@ -1107,27 +1118,38 @@ impl<'a> Problem<'a> {
             .map(|(d, l)| (&d.dopant, l))
     }
 
-    /// Appends the distinct `source` texts of the species whose level comes from `model`,
-    /// separated by "; ".
-    fn push_distinct_sources<'s>(
+    /// The distinct `source` texts of the species whose level comes from `model`, separated
+    /// by "; ". One distinct text (the usual case) is shared, not copied.
+    fn distinct_sources<'s, T>(
         &'s self,
-        out: &mut String,
         model: IonizationModel,
-        source: impl Fn(&'s Dopant) -> Option<&'s str>,
-    ) {
+        source: impl Fn(&'s Dopant) -> Option<&'s T>,
+    ) -> Cow<'static, str>
+    where
+        T: AsRef<str> + Clone + Into<Cow<'static, str>> + 's,
+    {
         let used = self.species_with(model);
-        let mut first = true;
-        for (i, (d, _)) in used.clone().enumerate() {
-            let Some(text) = source(d) else { continue };
-            if used.clone().take(i).any(|(e, _)| source(e) == Some(text)) {
-                continue;
-            }
-            if !first {
-                out.push_str("; ");
-            }
-            out.push_str(text);
-            first = false;
+        let mut distinct = used.clone().enumerate().filter_map(|(i, (d, _))| {
+            let text = source(d)?;
+            let seen = used
+                .clone()
+                .take(i)
+                .any(|(e, _)| source(e).is_some_and(|t| t.as_ref() == text.as_ref()));
+            (!seen).then_some(text)
+        });
+        let Some(first) = distinct.next() else {
+            return Cow::Borrowed("");
+        };
+        let Some(second) = distinct.next() else {
+            return first.clone().into();
+        };
+        let mut out = String::with_capacity(256);
+        out.push_str(first.as_ref());
+        for text in std::iter::once(second).chain(distinct) {
+            out.push_str("; ");
+            out.push_str(text.as_ref());
         }
+        Cow::Owned(out)
     }
 }
 
@@ -1152,6 +1174,18 @@ fn push_symbols<'d>(out: &mut String, dopants: impl Iterator<Item = &'d Dopant>)
             out.push_str(", ");
         }
         out.push_str(&d.symbol);
+    }
+}
+
+/// ln g, exact and without a logarithm for the degeneracy factors of the common dopants
+/// (2 for donors, 4 for acceptors in silicon and germanium).
+fn ln_degeneracy(g: f64) -> f64 {
+    if g == 2.0 {
+        std::f64::consts::LN_2
+    } else if g == 4.0 {
+        2.0 * std::f64::consts::LN_2
+    } else {
+        g.ln()
     }
 }
 

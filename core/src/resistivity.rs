@@ -704,7 +704,7 @@ pub fn resistivity_of_equilibrium(
     )?;
     let sigma = ELEMENTARY_CHARGE_C
         * (eq.electrons_cm3 * mu.electrons_cm2_per_v_s + eq.holes_cm3 * mu.holes_cm2_per_v_s);
-    let mut models = eq.models;
+    let mut models = eq.models.to_vec();
     models.push(ModelUsed {
         quantity: "mobility".into(),
         model: format!(

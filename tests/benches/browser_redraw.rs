@@ -1,13 +1,16 @@
-//! In-browser benchmark: time from an input change to every visible chart redrawn, per view,
-//! in real headless Chromium, plus nothing else. Run by `cargo xtask bench` after a release
-//! build; prints `browser_redraw_<view>_ms=<median>` lines that xtask puts in its table.
+//! In-browser benchmarks in real headless Chromium: time from an input change to every
+//! visible chart redrawn, per view, and time from picking a 100,000-row lot file to its summary
+//! shown. Run by `cargo xtask bench` after a release build; prints
+//! `browser_redraw_<view>_ms=<median>`, `browser_lots_100k_rows_first_read_ms=<ms>` and
+//! `browser_lots_100k_rows_ms=<median of the next five>` lines that xtask puts in its table.
 //!
 //! The page publishes the time of its last redraw (performance.now from the input event to the
 //! last chart drawn) in `<body data-redraw-ms>`. Other processes on a shared machine only ever
 //! add time, so each view is measured in three rounds of 21 inputs and the best median is kept.
 
-use bandgauge_tests::browser::with_browser;
-use bandgauge_tests::ui::{canvas_drawn, click};
+use bandgauge_tests::browser::{by_testid, with_browser};
+use bandgauge_tests::ui::{TempFile, canvas_drawn, click, run_script};
+use std::time::{Duration, Instant};
 
 /// Pixels a drawn chart has at least (axes, labels and a curve), to know it is on screen.
 const MIN_INKED_PIXELS: u64 = 2000;
@@ -55,6 +58,85 @@ fn median(mut v: Vec<f64>) -> f64 {
     v[v.len() / 2]
 }
 
+/// Rows of the generated lot file: 4 lots x 25 wafers x 1000 sites.
+const LOT_ROWS: usize = 100_000;
+/// Files read for the lot-file median, after a first read that is reported on its own (it
+/// includes the browser compiling the reader's code to its fastest tier).
+const LOT_RUNS: usize = 6;
+/// How long one read may take before the benchmark gives up.
+const LOT_WAIT: Duration = Duration::from_secs(120);
+
+/// A lot file of `LOT_ROWS` rows with invented resistivities (demo data).
+fn lot_file() -> String {
+    let mut text = String::from("lot,wafer,site,x [mm],y [mm],dopant,resistivity [ohm-cm]\n");
+    for row in 0..LOT_ROWS {
+        let (lot, wafer, site) = (row / 25_000, (row / 1000) % 25, row % 1000);
+        let value =
+            9.0 + lot as f64 * 0.3 + wafer as f64 * 0.02 + ((site * 31) % 1000) as f64 / 2000.0;
+        let (x, y) = (
+            (site % 40) as f64 * 3.0 - 60.0,
+            (site / 40) as f64 * 3.0 - 36.0,
+        );
+        text.push_str(&format!(
+            "BL{lot}-52,{wafer:02},{site},{x},{y},B,{value:.3}\n"
+        ));
+    }
+    text
+}
+
+/// Milliseconds from picking each file (the input's change event) to the page saying it has
+/// read all `LOT_ROWS` rows (the summary is drawn in the same update).
+async fn lot_read_times(client: &fantoccini::Client) -> Vec<f64> {
+    let text = lot_file();
+    let mut times = Vec::new();
+    for run in 0..LOT_RUNS {
+        let file = TempFile::new("bench", &format!("lots-100k-{run}.csv"), &text);
+        run_script(
+            client,
+            r#"
+            window.__t0 = null; window.__t1 = null;
+            if (!window.__lot_timer_set) {
+                window.__lot_timer_set = true;
+                document.addEventListener('change', function () { window.__t0 = performance.now(); }, true);
+                new MutationObserver(function () {
+                    const s = document.querySelector('[data-testid="lots-status"]').textContent;
+                    if (window.__t0 !== null && window.__t1 === null
+                        && s.startsWith('1 file(s) read: 100000 rows read')) {
+                        window.__t1 = performance.now();
+                    }
+                }).observe(document.body, { subtree: true, childList: true, characterData: true });
+            }
+            "#,
+        )
+        .await;
+        by_testid(client, "lots-files")
+            .await
+            .send_keys(&file.path())
+            .await
+            .expect("give the file input a path");
+        let deadline = Instant::now() + LOT_WAIT;
+        loop {
+            let t = client
+                .execute(
+                    "return window.__t1 === null ? null : window.__t1 - window.__t0;",
+                    vec![],
+                )
+                .await
+                .expect("read the timing");
+            if let Some(ms) = t.as_f64() {
+                times.push(ms);
+                break;
+            }
+            assert!(
+                Instant::now() < deadline,
+                "the 100k-row file was not read in {LOT_WAIT:?}"
+            );
+            tokio::time::sleep(Duration::from_millis(50)).await;
+        }
+    }
+    times
+}
+
 fn series(n: usize, f: impl Fn(usize) -> String) -> Vec<String> {
     (0..n).map(f).collect()
 }
@@ -88,6 +170,14 @@ async fn main() {
         {
             println!("browser_redraw_{view}_ms={ms:.3}");
         }
+        click(&client, "tab-lots").await;
+        by_testid(&client, "lots-files").await;
+        let times = lot_read_times(&client).await;
+        println!("browser_lots_100k_rows_first_read_ms={:.1}", times[0]);
+        println!(
+            "browser_lots_100k_rows_ms={:.1}",
+            median(times[1..].to_vec())
+        );
     })
     .await;
 }

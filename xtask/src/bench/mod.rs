@@ -1,9 +1,13 @@
 //! `cargo xtask bench`: criterion benchmarks of the core, the same neutrality problem
 //! scripted in Python with SciPy for a speed ratio, the release wasm size, and the
-//! in-browser redraw timings (headless Chromium), printed as one table.
+//! in-browser timings (headless Chromium: input to charts redrawn, a 100,000-row lot file
+//! read), and the CLI streaming 100,000 and 10,000,000 lot rows with its peak memory, printed
+//! as one table.
 //!
 //! Machines here are noisy: every figure is a median, and comparisons are ratios
 //! measured in the same run.
+
+mod streaming;
 
 use crate::shell::{self, root};
 use std::process::Command;
@@ -43,13 +47,29 @@ pub fn run(_args: &[String]) -> Result<(), String> {
             format!("not run: no criterion result named {SOLVE_BENCH}"),
         )),
     }
+    let streamed = streaming::measure().map(|runs| {
+        for run in runs {
+            table.push((
+                format!(
+                    "cli lots, {} rows ({:.0} MB): wall / peak RSS",
+                    run.rows,
+                    run.bytes as f64 / 1e6
+                ),
+                format!(
+                    "{} / {:.1} MB",
+                    format_ns(run.wall.as_secs_f64() * 1e9),
+                    run.peak_kib as f64 / 1024.0
+                ),
+            ));
+        }
+    });
     let browser = browser_rows(&mut table);
     println!();
-    println!("{:<56} {:>14}", "benchmark (median)", "time");
+    println!("{:<56} {:>24}", "benchmark (median)", "time");
     for (name, value) in &table {
-        println!("{name:<56} {value:>14}");
+        println!("{name:<56} {value:>24}");
     }
-    browser
+    streamed.and(browser)
 }
 
 /// Release build, its wasm size raw and gzipped, and the in-browser redraw medians.
@@ -86,14 +106,24 @@ fn browser_rows(table: &mut Vec<(String, String)>) -> Result<(), String> {
     let text = String::from_utf8_lossy(&out.stdout);
     let mut any = false;
     for (name, value) in text.lines().filter_map(|l| l.trim().split_once('=')) {
-        if let (Some(view), Ok(ms)) = (name.strip_prefix("browser_redraw_"), value.parse::<f64>()) {
-            any = true;
-            let label = format!(
+        let Ok(ms) = value.parse::<f64>() else {
+            continue;
+        };
+        let label = if let Some(view) = name.strip_prefix("browser_redraw_") {
+            format!(
                 "browser: input to charts redrawn, {}",
                 view.trim_end_matches("_ms")
-            );
-            table.push((label, format_ns(ms * 1e6)));
-        }
+            )
+        } else if let Some(what) = name.strip_prefix("browser_lots_") {
+            format!(
+                "browser: lot file read, converted, summarised, {}",
+                what.trim_end_matches("_ms").replace('_', " ")
+            )
+        } else {
+            continue;
+        };
+        any = true;
+        table.push((label, format_ns(ms * 1e6)));
     }
     if !any {
         return Err(format!(
@@ -173,7 +203,9 @@ fn median_ns(json: &str) -> Option<f64> {
 }
 
 fn format_ns(ns: f64) -> String {
-    if ns < 1e3 {
+    if ns >= 1e10 {
+        format!("{:.1} s", ns / 1e9)
+    } else if ns < 1e3 {
         format!("{ns:.1} ns")
     } else if ns < 1e6 {
         format!("{:.2} us", ns / 1e3)
