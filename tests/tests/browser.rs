@@ -15,7 +15,7 @@ use bandgauge_core::sweep;
 use bandgauge_tests::browser::{by_testid, retype, screenshot, text_until, with_browser};
 use bandgauge_tests::ui::{
     attr_of, canvas_drawn, choose, click, downloads, last_blob_text, number_near, number_until,
-    query, record_downloads, run_script, text_of,
+    query, record_downloads, run_script, text_of, value_of,
 };
 
 /// Relative agreement between the displayed ni and the published value.
@@ -87,16 +87,6 @@ async fn percent_near(client: &fantoccini::Client, id: &str, expected_fraction: 
         "{id} shows {v} %, core gives {}",
         100.0 * expected_fraction
     );
-}
-
-async fn input_value(client: &fantoccini::Client, id: &str) -> String {
-    by_testid(client, id)
-        .await
-        .prop("value")
-        .await
-        .ok()
-        .flatten()
-        .unwrap_or_default()
 }
 
 #[tokio::test(flavor = "multi_thread")]
@@ -300,12 +290,12 @@ async fn the_url_and_saved_state_reproduce_the_calculation() {
             .await
             .expect("open link");
         assert_eq!(number_until(&client, "n", |_| true).await, n_before);
-        assert_eq!(input_value(&client, "temperature").await, "350 K");
+        assert_eq!(value_of(&client, "temperature").await, "350 K");
         assert_eq!(
-            input_value(&client, "dopant-0-density").await,
+            value_of(&client, "dopant-0-density").await,
             "2.3x10^15 cm^-3"
         );
-        assert_eq!(input_value(&client, "mobility-model").await, "arora");
+        assert_eq!(value_of(&client, "mobility-model").await, "arora");
         assert_eq!(
             by_testid(&client, "bgn")
                 .await
@@ -319,7 +309,7 @@ async fn the_url_and_saved_state_reproduce_the_calculation() {
 
         // A reload without the query restores the saved inputs.
         client.goto(&base).await.expect("open plain");
-        assert_eq!(input_value(&client, "temperature").await, "350 K");
+        assert_eq!(value_of(&client, "temperature").await, "350 K");
 
         // A corrupt saved state falls back to defaults with a visible notice.
         run_script(
@@ -330,7 +320,7 @@ async fn the_url_and_saved_state_reproduce_the_calculation() {
         client.goto(&base).await.expect("reload");
         let notice = text_until(&client, "notices", |t| t.contains("could not be read")).await;
         assert!(notice.contains("defaults"), "{notice}");
-        assert_eq!(input_value(&client, "temperature").await, "300 K");
+        assert_eq!(value_of(&client, "temperature").await, "300 K");
         click(&client, "notices-dismiss").await;
 
         // Other views' state lives in the link too.
@@ -340,7 +330,7 @@ async fn the_url_and_saved_state_reproduce_the_calculation() {
             ))
             .await
             .expect("open link");
-        assert_eq!(input_value(&client, "convert-value").await, "1e17");
+        assert_eq!(value_of(&client, "convert-value").await, "1e17");
         let c = empirical::convert("si", "P", EmpiricalInput::DensityCm3(1e17)).expect("core");
         number_near(
             &client,
@@ -353,8 +343,8 @@ async fn the_url_and_saved_state_reproduce_the_calculation() {
             .goto(&format!("{base}?view=sweep&from=77&to=400&pts=12"))
             .await
             .expect("open link");
-        assert_eq!(input_value(&client, "sweep-from").await, "77");
-        assert_eq!(input_value(&client, "sweep-points").await, "12");
+        assert_eq!(value_of(&client, "sweep-from").await, "77");
+        assert_eq!(value_of(&client, "sweep-points").await, "12");
         let q = query(&client).await;
         assert!(q.contains("view=sweep") && q.contains("pts=12"), "{q}");
     })

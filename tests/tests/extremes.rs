@@ -83,6 +83,10 @@ use bandgauge_core::{BgnModel, lots::stats::MedianSketch, lots::stats::Moments};
 use proptest::prelude::*;
 use std::fmt::Debug;
 
+#[path = "../../fuzz/src/checks/finite.rs"]
+mod finite;
+use finite::non_finite_tokens;
+
 // ---------------------------------------------------------------------------------------------
 // Strategies: the awkward floats mixed with log-uniform ranges
 // ---------------------------------------------------------------------------------------------
@@ -336,43 +340,6 @@ fn measured(value: impl Strategy<Value = f64>) -> impl Strategy<Value = Measured
 // ---------------------------------------------------------------------------------------------
 // The checks
 // ---------------------------------------------------------------------------------------------
-
-/// The NaN and infinity tokens in the `Debug` text of `value`, outside quoted strings (a
-/// source text may say "info"; an `f64` field prints as `NaN`, `inf` or `-inf`).
-fn non_finite_tokens(value: &impl Debug) -> Vec<String> {
-    let text = format!("{value:?}");
-    let mut found = Vec::new();
-    let mut token = String::new();
-    let mut in_string = false;
-    let mut escaped = false;
-    let mut flush = |token: &mut String| {
-        if token == "NaN" || token == "inf" {
-            found.push(token.clone());
-        }
-        token.clear();
-    };
-    for c in text.chars() {
-        if in_string {
-            match (escaped, c) {
-                (true, _) => escaped = false,
-                (false, '\\') => escaped = true,
-                (false, '"') => in_string = false,
-                _ => {}
-            }
-            continue;
-        }
-        if c == '"' {
-            flush(&mut token);
-            in_string = true;
-        } else if c.is_alphanumeric() || c == '_' {
-            token.push(c);
-        } else {
-            flush(&mut token);
-        }
-    }
-    flush(&mut token);
-    found
-}
 
 /// The rule for fallible functions: Ok with every number finite, or an error with a message.
 fn check_result<T: Debug, E: std::fmt::Display + Debug>(

@@ -16,7 +16,7 @@
 //! - accepted rows and every figure of the report are finite (no NaN, no infinity);
 //! - error, rejection and note texts are non-empty and name their line.
 
-use super::finite::non_finite_paths;
+use super::finite::non_finite_tokens;
 use bandgauge_core::lots::{
     LotBook, LotFileError, LotReader, LotReport, Measurement, ReadOptions, RowCounts, RowOutcome,
     Site, SpecQuantity, SpecWindow, read_str,
@@ -281,7 +281,7 @@ fn check_report(report: &LotReport, counts: RowCounts) {
             lot.lot
         );
     }
-    let broken = non_finite_paths(report);
+    let broken = non_finite_tokens(report);
     assert!(
         broken.is_empty(),
         "non-finite figures in the report: {broken:?}"
