@@ -774,7 +774,7 @@ fn DopantRows(bench: Bench, reading: Reading) -> impl IntoView {
             .map(|m| {
                 m.dopants
                     .iter()
-                    .map(|d| (d.symbol.clone(), format!("{} ({})", d.symbol, d.kind)))
+                    .map(|d| (d.symbol.to_string(), format!("{} ({})", d.symbol, d.kind)))
                     .collect::<Vec<Choice>>()
             })
             .unwrap_or_default()

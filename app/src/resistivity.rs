@@ -270,7 +270,7 @@ fn dopant_choices() -> Vec<Choice> {
         .filter(|d| EmpiricalRelation::applicable("si", &d.symbol))
         .map(|d| {
             (
-                d.symbol.clone(),
+                d.symbol.to_string(),
                 format!(
                     "{} ({}, {}-type)",
                     d.symbol,

@@ -245,7 +245,7 @@ fn dopant_argument(request: &CarriersRequest, symbol: &str) -> &'static str {
     match request
         .doping
         .iter()
-        .find(|d| d.dopant.symbol == symbol)
+        .find(|d| *d.dopant.symbol == *symbol)
         .map(|d| d.dopant.kind)
     {
         Some(DopantKind::Acceptor) => "--acceptor",
@@ -409,7 +409,7 @@ fn table(request: &CarriersRequest, state: &Equilibrium) -> String {
         );
         for s in &state.species {
             species.row([
-                s.symbol.clone(),
+                s.symbol.to_string(),
                 s.kind.to_string(),
                 output::number(s.density_cm3),
                 output::number(s.ionized_cm3),

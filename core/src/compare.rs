@@ -301,7 +301,7 @@ pub fn convert(
         return Err(ConversionError::NotApplicable {
             model: model.id(),
             material_id: material.id.clone(),
-            dopant: dopant.symbol.clone(),
+            dopant: dopant.symbol.to_string(),
         });
     }
     let conductivity_type = match dopant.kind {
@@ -492,7 +492,7 @@ pub fn compare(
     if models.is_empty() {
         return Err(ConversionError::NoApplicableModel {
             material_id: material.id.clone(),
-            dopant: dopant.symbol.clone(),
+            dopant: dopant.symbol.to_string(),
         });
     }
     let answers: Vec<ModelAnswer> = models
@@ -502,7 +502,7 @@ pub fn compare(
     let spread = spread(&answers, input);
     Ok(Comparison {
         material_id: material.id.clone(),
-        dopant: dopant.symbol.clone(),
+        dopant: dopant.symbol.to_string(),
         conductivity_type: match dopant.kind {
             DopantKind::Donor => ConductivityType::N,
             DopantKind::Acceptor => ConductivityType::P,

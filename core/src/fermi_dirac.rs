@@ -169,7 +169,15 @@ pub fn f_half(eta: f64) -> f64 {
         eta
     } else if eta < LOWER_ETA_MAX {
         let t = eta.exp();
-        t * polynomial(&LOWER_HALF, t)
+        // Far below -2 a few terms of the series itself are already exact (see
+        // `SHORT_SERIES_ETA`); a shorter Horner chain is a shorter wait in the solver.
+        if eta < TWO_TERM_ETA {
+            t * polynomial(&SERIES_HALF_2, t)
+        } else if eta < SHORT_SERIES_ETA {
+            t * polynomial(&SERIES_HALF_5, t)
+        } else {
+            t * polynomial(&LOWER_HALF, t)
+        }
     } else if eta < UPPER_ETA_MIN {
         let (piece, d) = mid_piece(eta);
         polynomial(&MID_HALF[piece], d)
@@ -360,6 +368,24 @@ fn mid_piece(eta: f64) -> (usize, f64) {
     let centre = LOWER_ETA_MAX + (piece as f64 + 0.5) * MID_WIDTH;
     (piece, eta - centre)
 }
+
+/// Below this eta, `F_1/2 = t (1 - t/2^1.5)`: the first term left out, `t^2 / 3^1.5`, is
+/// below 8e-19 relative (`t < 2.1e-9`).
+const TWO_TERM_ETA: f64 = -20.0;
+/// Below this eta (and from [`TWO_TERM_ETA`] up), the first five terms of the polylogarithm
+/// series `sum_k (-1)^(k+1) t^k / k^(3/2)`: the first term left out, `t^5 / 6^1.5`, is below
+/// 3e-19 relative (`t < 3.4e-4`), far under the rounding of the sum.
+const SHORT_SERIES_ETA: f64 = -8.0;
+/// `1, -1/2^1.5`: the series of `F_1/2 / t`, two terms.
+const SERIES_HALF_2: [f64; 2] = [1.0, -0.353_553_390_593_273_8];
+/// `(-1)^k / (k+1)^1.5`, k = 0..4: the series of `F_1/2 / t`, five terms.
+const SERIES_HALF_5: [f64; 5] = [
+    1.0,
+    -0.353_553_390_593_273_8,
+    0.192_450_089_729_875_25,
+    -0.125,
+    0.089_442_719_099_991_59,
+];
 
 /// `sum_k coeffs[k] x^k` by Horner's rule.
 #[inline]

@@ -40,8 +40,8 @@ impl fmt::Display for DopantKind {
 /// A dopant species with a single hydrogen-like level.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Dopant {
-    /// Chemical symbol, e.g. "P".
-    pub symbol: String,
+    /// Chemical symbol, e.g. "P" (borrowed for the built-in dopants, so results copy no text).
+    pub symbol: Cow<'static, str>,
     /// Donor or acceptor.
     pub kind: DopantKind,
     /// Ionization energy in eV, measured from the conduction band edge
@@ -74,7 +74,7 @@ impl Dopant {
         source: &str,
     ) -> Result<Dopant, MaterialError> {
         let d = Dopant {
-            symbol: symbol.to_owned(),
+            symbol: Cow::Owned(symbol.to_owned()),
             kind,
             ionization_energy_ev,
             degeneracy,
@@ -90,7 +90,7 @@ impl Dopant {
     /// # Errors
     /// [`MaterialError::InvalidParameter`] or [`MaterialError::EmptyText`] naming the field.
     pub fn validate(&self) -> Result<(), MaterialError> {
-        if self.symbol.trim().is_empty() {
+        if self.symbol.chars().all(char::is_whitespace) {
             return Err(MaterialError::EmptyText {
                 field: "dopant.symbol".into(),
             });
@@ -213,7 +213,7 @@ impl Material {
             .ok_or_else(|| MaterialError::UnknownDopant {
                 material: self.id.clone(),
                 symbol: symbol.to_owned(),
-                known: self.dopants.iter().map(|d| d.symbol.clone()).collect(),
+                known: self.dopants.iter().map(|d| d.symbol.to_string()).collect(),
             })
     }
 
@@ -228,7 +228,7 @@ impl Material {
         if d.kind != kind {
             return Err(MaterialError::WrongKind {
                 material: self.id.clone(),
-                symbol: d.symbol,
+                symbol: d.symbol.to_string(),
                 requested: kind,
                 actual: d.kind,
             });
@@ -263,7 +263,7 @@ impl Material {
             {
                 return Err(MaterialError::DuplicateDopant {
                     material: self.id.clone(),
-                    symbol: d.symbol.clone(),
+                    symbol: d.symbol.to_string(),
                 });
             }
         }
@@ -458,7 +458,7 @@ pub fn by_id(id: &str) -> Result<Material, MaterialError> {
         })
 }
 
-fn dopant(symbol: &str, kind: DopantKind, ionization_mev: f64, source: &str) -> Dopant {
+fn dopant(symbol: &'static str, kind: DopantKind, ionization_mev: f64, source: &str) -> Dopant {
     // Source: ground-state degeneracy g_D = 2 (spin) for donors and g_A = 4
     // (spin and the degenerate heavy/light-hole band top) for acceptors in
     // Si, Ge, GaAs: common practice, no source (see e.g. Sze 1981, ch. 1).
@@ -719,7 +719,7 @@ mod tests {
     #[test]
     fn lookup_is_case_insensitive() {
         assert_eq!(by_id("GaAs").map(|m| m.id), Ok("gaas".to_owned()));
-        assert_eq!(silicon().dopant("b").map(|d| d.symbol), Ok("B".to_owned()));
+        assert_eq!(silicon().dopant("b").map(|d| d.symbol), Ok("B".into()));
         assert!(matches!(
             by_id("unobtainium"),
             Err(MaterialError::UnknownMaterial { .. })

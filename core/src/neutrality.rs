@@ -133,8 +133,8 @@ pub struct Equilibrium {
 /// Ionization state of one dopant species.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct SpeciesState {
-    /// Chemical symbol.
-    pub symbol: String,
+    /// Chemical symbol (borrowed from the dopant's when it is built in).
+    pub symbol: Cow<'static, str>,
     /// Donor or acceptor.
     pub kind: DopantKind,
     /// Total density, cm^-3.
@@ -422,7 +422,7 @@ pub fn solve(
     options: &SolveOptions,
 ) -> Result<Equilibrium, CarrierError> {
     let problem = Problem::new(material, doping, options)?;
-    problem.solve_at(temperature_k, None)
+    problem.solve_at(temperature_k, None, problem.models_used())
 }
 
 /// One dopant species in the form the solver needs.
@@ -444,6 +444,7 @@ pub(crate) struct Problem<'a> {
     material: &'a Material,
     doping: &'a [DopantDensity],
     options: &'a SolveOptions,
+    /// One per species, in input order.
     levels: Vec<Level>,
     donors_cm3: f64,
     acceptors_cm3: f64,
@@ -455,8 +456,6 @@ pub(crate) struct Problem<'a> {
     deepest_level_ev: f64,
     ln_nc_300k: f64,
     ln_nv_300k: f64,
-    /// What every result of this problem names, built once.
-    models: Arc<[ModelUsed]>,
 }
 
 /// h(u) and its derivative, with the pieces the result needs.
@@ -527,7 +526,7 @@ impl<'a> Problem<'a> {
             let n = d.density_cm3;
             if !(n.is_finite() && (0.0..=MAX_DENSITY_CM3).contains(&n)) {
                 return Err(CarrierError::InvalidDensity {
-                    symbol: d.dopant.symbol.clone(),
+                    symbol: d.dopant.symbol.to_string(),
                     value: n,
                 });
             }
@@ -598,7 +597,7 @@ impl<'a> Problem<'a> {
                 material: material.id.clone(),
             });
         }
-        let mut problem = Problem {
+        Ok(Problem {
             material,
             doping,
             options,
@@ -611,10 +610,7 @@ impl<'a> Problem<'a> {
             deepest_level_ev,
             ln_nc_300k: material.nc.at_300k_cm3.ln(),
             ln_nv_300k: material.nv.at_300k_cm3.ln(),
-            models: Arc::new([]),
-        };
-        problem.models = problem.models_used().into();
-        Ok(problem)
+        })
     }
 
     fn frame(&self, temperature_k: f64) -> Result<Frame, CarrierError> {
@@ -635,7 +631,7 @@ impl<'a> Problem<'a> {
                 .iter()
                 .zip(&self.levels)
                 .find(|(_, l)| l.ionization_energy_ev >= band_gap_ev)
-                .map(|(d, _)| d.dopant.symbol.clone())
+                .map(|(d, _)| d.dopant.symbol.to_string())
                 .unwrap_or_default();
             return Err(CarrierError::LevelOutsideGap {
                 symbol: culprit,
@@ -899,6 +895,7 @@ impl<'a> Problem<'a> {
         &self,
         temperature_k: f64,
         hint_fermi_minus_valence_ev: Option<f64>,
+        models: Arc<[ModelUsed]>,
     ) -> Result<Equilibrium, CarrierError> {
         let f = self.frame(temperature_k)?;
         let guess = match hint_fermi_minus_valence_ev {
@@ -908,10 +905,17 @@ impl<'a> Problem<'a> {
         let (u, e) = self
             .find_root(&f, guess)
             .ok_or(CarrierError::NotConverged { temperature_k })?;
-        Ok(self.result(temperature_k, &f, u, e))
+        Ok(self.result(temperature_k, &f, u, e, models))
     }
 
-    fn result(&self, temperature_k: f64, f: &Frame, u: f64, e: Evaluation) -> Equilibrium {
+    fn result(
+        &self,
+        temperature_k: f64,
+        f: &Frame,
+        u: f64,
+        e: Evaluation,
+        models: Arc<[ModelUsed]>,
+    ) -> Equilibrium {
         let kt = f.kt_ev;
         let eta_n = u - f.gap;
         let eta_p = -u;
@@ -999,13 +1003,15 @@ impl<'a> Problem<'a> {
             regime,
             degenerate: eta_n > -DEGENERACY_MARGIN_KT || eta_p > -DEGENERACY_MARGIN_KT,
             relative_residual: -(-e.h.abs()).exp_m1(),
-            models: Arc::clone(&self.models),
+            models,
         }
     }
 
-    fn models_used(&self) -> Vec<ModelUsed> {
+    /// Every model the results of this problem depend on, in one allocation; a sweep builds it
+    /// once and every point shares it.
+    pub(crate) fn models_used(&self) -> Arc<[ModelUsed]> {
         let m = self.material;
-        let mut models = Vec::with_capacity(6);
+        let mut models = ModelList::default();
         models.push(ModelUsed {
             quantity: "band gap".into(),
             model: "Varshni".into(),
@@ -1058,7 +1064,7 @@ impl<'a> Problem<'a> {
                 });
             }
         }
-        models
+        models.into_shared()
     }
 
     /// The `models` entry of one ionization model, naming the species it was used for
@@ -1150,6 +1156,36 @@ impl<'a> Problem<'a> {
             out.push_str(text.as_ref());
         }
         Cow::Owned(out)
+    }
+}
+
+/// The most `models` entries a result can have: band gap, densities of states, intrinsic
+/// density, statistics, one per ionization model, band-gap narrowing.
+const MAX_MODELS: usize = 4 + IonizationModel::ALL.len() + 1;
+
+/// The `models` of a problem while they are collected: on the stack, so that the shared list
+/// is the only allocation (an `Arc` collected from a `Vec` would copy it into a second one).
+#[derive(Default)]
+struct ModelList {
+    slots: [Option<ModelUsed>; MAX_MODELS],
+    len: usize,
+}
+
+impl ModelList {
+    fn push(&mut self, model: ModelUsed) {
+        self.slots[self.len] = Some(model);
+        self.len += 1;
+    }
+
+    /// The entries in order. `take` and `map` keep the exact length known, so the `Arc` is
+    /// allocated once at its final size.
+    fn into_shared(self) -> Arc<[ModelUsed]> {
+        let len = self.len;
+        self.slots
+            .into_iter()
+            .take(len)
+            .map(|m| m.expect("every slot below len is filled"))
+            .collect()
     }
 }
 

@@ -490,7 +490,7 @@ impl<'a> Conversion<'a> {
         }
         Ok(ResistivityPoint {
             material_id: self.material.id.clone(),
-            dopant: self.dopant.symbol.clone(),
+            dopant: self.dopant.symbol.to_string(),
             conductivity_type: self.conductivity_type(),
             density_cm3,
             temperature_k: self.temperature_k,
@@ -727,7 +727,7 @@ pub fn resistivity_of_equilibrium(
         hole_mobility_cm2_per_v_s: mu.holes_cm2_per_v_s,
         resistivity_ohm_cm: 1.0 / sigma,
         mobility_model: options.mobility,
-        mobility_species: species.symbol,
+        mobility_species: species.symbol.to_string(),
         mobility_parameters: [mu.electron_parameters, mu.hole_parameters],
         regime: eq.regime,
         degenerate: eq.degenerate,

@@ -1,5 +1,7 @@
 //! Neutrality solves over a temperature grid, sharing the temperature-independent preparation.
 
+use std::sync::Arc;
+
 use crate::materials::{DopantDensity, Material};
 use crate::neutrality::{CarrierError, Equilibrium, Problem, SolveOptions};
 
@@ -29,6 +31,8 @@ pub fn temperature_sweep(
         Ok(p) => p,
         Err(e) => return temperatures_k.iter().map(|_| Err(e.clone())).collect(),
     };
+    // Every point names the same models: built once, shared.
+    let models = problem.models_used();
     // The last two successful points (T, E_F - E_V): each solve starts from
     // their linear extrapolation, which on a chart-dense grid is within a
     // fraction of a meV of the answer.
@@ -43,7 +47,7 @@ pub fn temperature_sweep(
                 [_, Some((_, e1))] => Some(e1),
                 _ => None,
             };
-            let r = problem.solve_at(t, hint);
+            let r = problem.solve_at(t, hint, Arc::clone(&models));
             match &r {
                 Ok(e) => previous = [previous[1], Some((t, e.fermi_minus_valence_ev))],
                 Err(_) => previous = [None, None],

@@ -55,7 +55,7 @@ fn user_dopant(kind: DopantKind, index: usize) -> impl Strategy<Value = Dopant> 
         prop::option::of(user_altermatt()),
     )
         .prop_map(move |(e, g, altermatt)| Dopant {
-            symbol: format!("{kind}{index}"),
+            symbol: format!("{kind}{index}").into(),
             kind,
             ionization_energy_ev: e,
             degeneracy: g,

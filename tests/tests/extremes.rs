@@ -208,7 +208,7 @@ fn material() -> impl Strategy<Value = Mat> {
 /// A material with its own dopant symbols, or a symbol none of them has.
 fn material_and_dopant() -> impl Strategy<Value = (Mat, String)> {
     material().prop_flat_map(|m| {
-        let symbols: Vec<String> = m.dopants.iter().map(|d| d.symbol.clone()).collect();
+        let symbols: Vec<String> = m.dopants.iter().map(|d| d.symbol.to_string()).collect();
         let unknown = vec!["Xx".to_owned(), String::new()];
         (
             Just(m),
@@ -290,7 +290,7 @@ fn covered_conversion() -> impl Strategy<Value = (Mat, String, ConversionModel)>
         for d in &m.dopants {
             for model in ConversionModel::all() {
                 if model.applicable(&m.id, &d.symbol) {
-                    covered.push((Mat(m.clone()), d.symbol.clone(), model));
+                    covered.push((Mat(m.clone()), d.symbol.to_string(), model));
                 }
             }
         }
