@@ -404,8 +404,9 @@ fn table(request: &CarriersRequest, state: &Equilibrium) -> String {
                 "ionized cm^-3",
                 "ionized %",
                 "level from band edge eV",
+                "level model",
             ],
-            &[false, false, true, true, true, true],
+            &[false, false, true, true, true, true, false],
         );
         for s in &state.species {
             species.row([
@@ -415,6 +416,7 @@ fn table(request: &CarriersRequest, state: &Equilibrium) -> String {
                 output::number(s.ionized_cm3),
                 output::number(100.0 * s.ionized_fraction),
                 output::number(s.level_from_band_edge_ev),
+                s.level_model.id().to_owned(),
             ]);
         }
         text.push_str(&species.render());

@@ -168,16 +168,7 @@ pub fn f_half(eta: f64) -> f64 {
     if eta.is_nan() {
         eta
     } else if eta < LOWER_ETA_MAX {
-        let t = eta.exp();
-        // Far below -2 a few terms of the series itself are already exact (see
-        // `SHORT_SERIES_ETA`); a shorter Horner chain is a shorter wait in the solver.
-        if eta < TWO_TERM_ETA {
-            t * polynomial(&SERIES_HALF_2, t)
-        } else if eta < SHORT_SERIES_ETA {
-            t * polynomial(&SERIES_HALF_5, t)
-        } else {
-            t * polynomial(&LOWER_HALF, t)
-        }
+        lower_half(eta, eta.exp())
     } else if eta < UPPER_ETA_MIN {
         let (piece, d) = mid_piece(eta);
         polynomial(&MID_HALF[piece], d)
@@ -186,6 +177,31 @@ pub fn f_half(eta: f64) -> f64 {
         // Multiplied in this order so the product overflows only when the
         // true value does.
         INV_GAMMA_5_2 * eta * eta.sqrt() * (1.0 + y * polynomial(&SOMMERFELD_HALF, y))
+    }
+}
+
+/// [`f_half`] for a caller that has `t = exp(eta)` at hand anyway (the neutrality solver needs
+/// it for the dopant occupancies): the same value, one exponential fewer.
+#[inline]
+pub(crate) fn f_half_with_exp(eta: f64, t: f64) -> f64 {
+    if eta < LOWER_ETA_MAX {
+        lower_half(eta, t)
+    } else {
+        f_half(eta)
+    }
+}
+
+/// `F_1/2(eta)` for `eta < -2`, `t = exp(eta)`. Far below -2 a few terms of the series itself
+/// are already exact (see [`SHORT_SERIES_ETA`]); a shorter Horner chain is a shorter wait in
+/// the solver.
+#[inline]
+fn lower_half(eta: f64, t: f64) -> f64 {
+    if eta < TWO_TERM_ETA {
+        t * polynomial(&SERIES_HALF_2, t)
+    } else if eta < SHORT_SERIES_ETA {
+        t * polynomial(&SERIES_HALF_5, t)
+    } else {
+        t * polynomial(&LOWER_HALF, t)
     }
 }
 

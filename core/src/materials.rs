@@ -50,8 +50,9 @@ pub struct Dopant {
     /// Ground-state degeneracy factor g (2 for donors, 4 for acceptors in
     /// silicon, germanium and GaAs with a degenerate valence band top).
     pub degeneracy: f64,
-    /// Where the ionization energy and degeneracy come from.
-    pub source: String,
+    /// Where the ionization energy and degeneracy come from (borrowed for the built-in
+    /// dopants).
+    pub source: Cow<'static, str>,
     /// The Altermatt et al. (2006) set of this dopant in this host, if published (silicon P,
     /// As, B): the density-dependent level and localized fraction of
     /// [`crate::ionization::IonizationModel::Altermatt`].
@@ -78,7 +79,7 @@ impl Dopant {
             kind,
             ionization_energy_ev,
             degeneracy,
-            source: source.to_owned(),
+            source: Cow::Owned(source.to_owned()),
             altermatt: None,
         };
         d.validate()?;
@@ -458,7 +459,12 @@ pub fn by_id(id: &str) -> Result<Material, MaterialError> {
         })
 }
 
-fn dopant(symbol: &'static str, kind: DopantKind, ionization_mev: f64, source: &str) -> Dopant {
+fn dopant(
+    symbol: &'static str,
+    kind: DopantKind,
+    ionization_mev: f64,
+    source: &'static str,
+) -> Dopant {
     // Source: ground-state degeneracy g_D = 2 (spin) for donors and g_A = 4
     // (spin and the degenerate heavy/light-hole band top) for acceptors in
     // Si, Ge, GaAs: common practice, no source (see e.g. Sze 1981, ch. 1).

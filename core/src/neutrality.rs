@@ -41,6 +41,7 @@ use std::borrow::Cow;
 use std::fmt;
 
 use serde::{Deserialize, Serialize};
+use smallvec::SmallVec;
 use std::sync::Arc;
 
 use crate::bgn::BgnModel;
@@ -469,8 +470,13 @@ struct Evaluation {
 /// n and p at the evaluated point, in whichever form the evaluation produced.
 #[derive(Debug, Clone, Copy)]
 enum Carriers {
-    /// Both are normal f64 numbers, cm^-3.
-    Linear { electrons: f64, holes: f64 },
+    /// Both are normal f64 numbers, cm^-3; with exp(eta) of both bands.
+    Linear {
+        electrons: f64,
+        holes: f64,
+        t_n: f64,
+        t_p: f64,
+    },
     /// Natural logarithms, for densities outside the f64 range.
     Log { ln_electrons: f64, ln_holes: f64 },
 }
@@ -488,7 +494,17 @@ struct Frame {
     nv: f64,
     ln_ni_model: f64,
     band_gap_ev: f64,
+    /// g exp(E_level/kT) of each level, so that a level's occupancy term is this factor times
+    /// exp(eta) of its band: the linear evaluation then needs two exponentials however many
+    /// species there are.
+    level_factors: SmallVec<[f64; INLINE_SPECIES]>,
+    /// Every factor of a level that follows its occupancy is finite (below about 1 K for
+    /// shallow levels it is not; the logarithmic evaluation then takes over).
+    level_factors_finite: bool,
 }
+
+/// Species whose per-temperature factors a frame holds without a heap allocation.
+const INLINE_SPECIES: usize = 4;
 
 const MAX_ITERATIONS: usize = 300;
 /// |h| below which the solve stops: h = ln(positive/negative charge), so this
@@ -657,6 +673,14 @@ impl<'a> Problem<'a> {
             }
             _ => ln_ni_dos,
         };
+        let inverse_kt = 1.0 / kt_ev;
+        let mut level_factors = SmallVec::with_capacity(self.levels.len());
+        let mut level_factors_finite = true;
+        for l in &self.levels {
+            let factor = (l.ln_degeneracy + l.ionization_energy_ev * inverse_kt).exp();
+            level_factors_finite &= factor.is_finite() || l.localized == 0.0;
+            level_factors.push(factor);
+        }
         Ok(Frame {
             kt_ev,
             gap: band_gap_ev / kt_ev,
@@ -666,6 +690,8 @@ impl<'a> Problem<'a> {
             nv: ln_nv.exp(),
             ln_ni_model,
             band_gap_ev,
+            level_factors,
+            level_factors_finite,
         })
     }
 
@@ -684,32 +710,37 @@ impl<'a> Problem<'a> {
     fn evaluate_linear(&self, f: &Frame, u: f64) -> Option<Evaluation> {
         let eta_p = -u;
         let eta_n = u - f.gap;
-        if eta_p < LINEAR_MIN_ETA || eta_n < LINEAR_MIN_ETA {
+        if eta_p < LINEAR_MIN_ETA || eta_n < LINEAR_MIN_ETA || !f.level_factors_finite {
             return None;
         }
-        let holes = f.nv * fd::f_half(eta_p);
-        let electrons = f.nc * fd::f_half(eta_n);
-        let (mut pos, mut dpos) = (holes + self.fixed_donors_cm3, -holes * fd_ratio(eta_p));
+        // e^eta of each band (+inf far above the band edge, which every use below handles).
+        let (t_p, t_n) = (eta_p.exp(), eta_n.exp());
+        let holes = f.nv * fd::f_half_with_exp(eta_p, t_p);
+        let electrons = f.nc * fd::f_half_with_exp(eta_n, t_n);
+        let (mut pos, mut dpos) = (
+            holes + self.fixed_donors_cm3,
+            -holes * fd_ratio_with(eta_p, || t_p),
+        );
         let (mut neg, mut dneg) = (
             electrons + self.fixed_acceptors_cm3,
-            electrons * fd_ratio(eta_n),
+            electrons * fd_ratio_with(eta_n, || t_n),
         );
-        let inverse_kt = 1.0 / f.kt_ev;
-        for l in &self.levels {
+        for (l, &factor) in self.levels.iter().zip(&f.level_factors) {
             if l.localized == 0.0 {
                 continue;
             }
-            let e = l.ionization_energy_ev * inverse_kt;
             match l.kind {
                 DopantKind::Donor => {
-                    let x = (l.ln_degeneracy + eta_n + e).exp();
+                    // g exp((E_F - E_D)/kT)
+                    let x = factor * t_n;
                     let ionized = l.localized / (1.0 + x);
                     pos += ionized;
                     // d/du of N/(1 + x) = -N x / (1 + x)^2; 1/(1 + 1/x) stays finite for x = inf.
                     dpos -= ionized / (1.0 + 1.0 / x);
                 }
                 DopantKind::Acceptor => {
-                    let y = (l.ln_degeneracy + e + eta_p).exp();
+                    // g exp((E_A - E_F)/kT)
+                    let y = factor * t_p;
                     let ionized = l.localized / (1.0 + y);
                     neg += ionized;
                     dneg += ionized / (1.0 + 1.0 / y);
@@ -722,7 +753,12 @@ impl<'a> Problem<'a> {
         Some(Evaluation {
             h: (pos / neg).ln(),
             dh: dpos / pos - dneg / neg,
-            carriers: Carriers::Linear { electrons, holes },
+            carriers: Carriers::Linear {
+                electrons,
+                holes,
+                t_n,
+                t_p,
+            },
         })
     }
 
@@ -919,22 +955,46 @@ impl<'a> Problem<'a> {
         let kt = f.kt_ev;
         let eta_n = u - f.gap;
         let eta_p = -u;
-        let (electrons, holes, ln_n, ln_p) = match e.carriers {
-            Carriers::Linear { electrons, holes } => (electrons, holes, electrons.ln(), holes.ln()),
+        let (electrons, holes, ln_n, ln_p, band_exps) = match e.carriers {
+            Carriers::Linear {
+                electrons,
+                holes,
+                t_n,
+                t_p,
+            } => (
+                electrons,
+                holes,
+                electrons.ln(),
+                holes.ln(),
+                Some((t_n, t_p)),
+            ),
             Carriers::Log {
                 ln_electrons,
                 ln_holes,
-            } => (ln_electrons.exp(), ln_holes.exp(), ln_electrons, ln_holes),
+            } => (
+                ln_electrons.exp(),
+                ln_holes.exp(),
+                ln_electrons,
+                ln_holes,
+                None,
+            ),
         };
         let mut species = Vec::with_capacity(self.doping.len());
         let (mut ionized_donors, mut ionized_acceptors) = (0.0, 0.0);
-        for (d, l) in self.doping.iter().zip(&self.levels) {
-            let e_level = l.ionization_energy_ev / kt;
-            let z = match l.kind {
-                DopantKind::Donor => l.ln_degeneracy + eta_n + e_level,
-                DopantKind::Acceptor => l.ln_degeneracy + e_level + eta_p,
+        for ((d, l), &factor) in self.doping.iter().zip(&self.levels).zip(&f.level_factors) {
+            // 1/(1 + g exp(+-(E_F - E_level)/kT)): from the evaluation's exponentials where it
+            // had them, else in one exponential.
+            let occupancy = match (band_exps, l.kind) {
+                (Some((t_n, _)), DopantKind::Donor) => 1.0 / (1.0 + factor * t_n),
+                (Some((_, t_p)), DopantKind::Acceptor) => 1.0 / (1.0 + factor * t_p),
+                (None, kind) => {
+                    let e_level = l.ionization_energy_ev / kt;
+                    logistic_complement(match kind {
+                        DopantKind::Donor => l.ln_degeneracy + eta_n + e_level,
+                        DopantKind::Acceptor => l.ln_degeneracy + e_level + eta_p,
+                    })
+                }
             };
-            let occupancy = logistic_complement(z);
             // b + (1 - b) may round to 1 + 1 ulp: the min keeps the fraction a fraction.
             let fraction = (l.effective.delocalized_fraction
                 + l.effective.localized_fraction * occupancy)
@@ -1067,28 +1127,16 @@ impl<'a> Problem<'a> {
         models.into_shared()
     }
 
-    /// The `models` entry of one ionization model, naming the species it was used for
-    /// (None when no species used it). Built from static text without number formatting and
-    /// with two allocations, so a solve stays fast.
+    /// The `models` entry of one ionization model (None when no species used it). The model
+    /// text is static: which species used which model is in each [`SpeciesState::level_model`],
+    /// so a one-shot solve copies no text (built-in sources are borrowed too).
     fn ionization_entry(&self, model: IonizationModel) -> Option<ModelUsed> {
-        let mut used = self.species_with(model).peekable();
-        used.peek()?;
+        self.species_with(model).next()?;
         let text = match model {
             IonizationModel::Altermatt => ALTERMATT_DESCRIPTION,
             IonizationModel::PearsonBardeen => PEARSON_BARDEEN_DESCRIPTION,
             IonizationModel::Dilute => DILUTE_DESCRIPTION,
         };
-        let mut description = String::with_capacity(text.len() + 64);
-        description.push_str(text);
-        push_symbols(&mut description, used.map(|(d, _)| d));
-        let mut merged = self
-            .species_with(model)
-            .filter(|(_, l)| l.effective.merged_with_band)
-            .peekable();
-        if merged.peek().is_some() {
-            description.push_str("; merged with the band, fully ionized: ");
-            push_symbols(&mut description, merged.map(|(d, _)| d));
-        }
         let source = match model {
             IonizationModel::Altermatt => {
                 self.distinct_sources(model, |d| d.altermatt.as_ref().map(|p| &p.source))
@@ -1107,7 +1155,7 @@ impl<'a> Problem<'a> {
         };
         Some(ModelUsed {
             quantity: "dopant ionization".into(),
-            model: Cow::Owned(description),
+            model: Cow::Borrowed(text),
             source,
         })
     }
@@ -1140,7 +1188,7 @@ impl<'a> Problem<'a> {
             let seen = used
                 .clone()
                 .take(i)
-                .any(|(e, _)| source(e).is_some_and(|t| t.as_ref() == text.as_ref()));
+                .any(|(e, _)| source(e).is_some_and(|t| same_text(t.as_ref(), text.as_ref())));
             (!seen).then_some(text)
         });
         let Some(first) = distinct.next() else {
@@ -1189,28 +1237,23 @@ impl ModelList {
     }
 }
 
-/// `models` text of the Altermatt model (the species follow).
+/// `models` text of the Altermatt model.
 const ALTERMATT_DESCRIPTION: &str = "Altermatt et al. 2006: level E0/(1 + (N/N_ref)^c) from the \
      band edge, a fraction 1/(1 + (N/N_b)^d) localized with occupancy \
      1/(1 + g exp(+-(E_F - E_level)/kT)), the rest always ionized; N = density of all dopants \
-     of the same kind; for ";
-/// `models` text of the Pearson-Bardeen model (the species follow).
+     of the same kind";
+/// `models` text of the Pearson-Bardeen model.
 const PEARSON_BARDEEN_DESCRIPTION: &str = "Pearson-Bardeen: level E0 - alpha N^(1/3) from the \
      band edge (E0 the dopant's dilute level), occupancy 1/(1 + g exp(+-(E_F - E_level)/kT)); \
      N = density of all dopants of the same kind; where E0 - alpha N^(1/3) <= 0 the level has \
-     merged with the band and the species counts as fully ionized; for ";
-/// `models` text of the constant level (the species follow).
-const DILUTE_DESCRIPTION: &str =
-    "dilute: constant level, 1/(1 + g exp(+-(E_F - E_level)/kT)); for ";
+     merged with the band (level 0 eV) and the species counts as fully ionized";
+/// `models` text of the constant level.
+const DILUTE_DESCRIPTION: &str = "dilute: constant level, 1/(1 + g exp(+-(E_F - E_level)/kT))";
 
-/// Appends the symbols, separated by ", ".
-fn push_symbols<'d>(out: &mut String, dopants: impl Iterator<Item = &'d Dopant>) {
-    for (i, d) in dopants.enumerate() {
-        if i > 0 {
-            out.push_str(", ");
-        }
-        out.push_str(&d.symbol);
-    }
+/// Equal texts; the built-in sources are one static text each, so the pointers usually
+/// settle it without comparing the bytes.
+fn same_text(a: &str, b: &str) -> bool {
+    (std::ptr::eq(a.as_ptr(), b.as_ptr()) && a.len() == b.len()) || a == b
 }
 
 /// ln g, exact and without a logarithm for the degeneracy factors of the common dopants
@@ -1277,10 +1320,16 @@ fn ln_f_half(eta: f64) -> f64 {
 /// relative (t = e^eta), plenty for a Newton slope, with one exponential.
 #[inline]
 fn fd_ratio(eta: f64) -> f64 {
+    fd_ratio_with(eta, || eta.exp())
+}
+
+/// [`fd_ratio`] with `exp(eta)` from the caller (asked for only where the series needs it).
+#[inline]
+fn fd_ratio_with(eta: f64, exp_eta: impl FnOnce() -> f64) -> f64 {
     if eta < BOLTZMANN_DERIVATIVE_ETA {
         1.0
     } else if eta < SERIES_DERIVATIVE_ETA {
-        let t = eta.exp();
+        let t = exp_eta();
         // F_j = t (1 - t / 2^(j+1) + t^2 / 3^(j+1) - ...)
         (1.0 - t * std::f64::consts::FRAC_1_SQRT_2 + t * t * 0.577_350_269_189_625_8)
             / (1.0 - t * 0.353_553_390_593_273_8 + t * t * 0.192_450_089_729_875_3)
