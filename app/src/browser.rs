@@ -209,6 +209,17 @@ pub fn now_iso_utc() -> String {
     String::from(js_sys::Date::new_0().to_iso_string())
 }
 
+/// Moves the keyboard focus to the element with this `id`, when it is on the page.
+pub fn focus_element(id: &str) {
+    let element = window()
+        .and_then(|w| w.document())
+        .and_then(|d| d.get_element_by_id(id))
+        .and_then(|e| e.dyn_into::<web_sys::HtmlElement>().ok());
+    if let Some(e) = element {
+        let _ = e.focus();
+    }
+}
+
 /// Opens the browser's print dialog (print to paper or to PDF).
 pub fn print() {
     if let Some(w) = window() {

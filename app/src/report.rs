@@ -267,7 +267,7 @@ pub fn RecordTools(
     };
     view! {
         <div class="record-tools">
-            <button type="button" data-testid="report-open" on:click=write_report
+            <button type="button" id=REPORT_BUTTON_ID data-testid="report-open" on:click=write_report
                 title="A page to print or save as PDF, and the record file that reproduces it">
                 "Sign-off report"
             </button>
@@ -281,13 +281,20 @@ pub fn RecordTools(
     }
 }
 
+/// The `id` of the button that opens the report (focus returns to it when the report closes).
+const REPORT_BUTTON_ID: &str = "report-open";
+
 /// The report page over the workbench, while one is open.
 #[component]
 pub fn ReportOverlay(
     /// The report shown.
     open: OpenReport,
 ) -> impl IntoView {
-    let close = Callback::new(move |()| open.set(None));
+    // Keyboard users go back to where they opened it.
+    let close = Callback::new(move |()| {
+        open.set(None);
+        browser::focus_element(REPORT_BUTTON_ID);
+    });
     move || {
         open.get()
             .map(|record| view! { <ReportPage record=record on_close=close /> })

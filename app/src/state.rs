@@ -377,7 +377,8 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
             K_VIEW => match View::from_key(&value) {
                 Some(view) => w.view = view,
                 None => notices.push(format!(
-                    "link: view '{value}' is unknown; showing the carriers view"
+                    "link: view {} is unknown; showing the carriers view",
+                    quoted(&value)
                 )),
             },
             K_MATERIAL => c.material = value,
@@ -398,7 +399,8 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
                 "1" | "on" | "true" => c.band_gap_narrowing = true,
                 "0" | "off" | "false" => c.band_gap_narrowing = false,
                 _ => notices.push(format!(
-                    "link: bgn '{value}' is not 0 or 1; band-gap narrowing is off"
+                    "link: bgn {} is not 0 or 1; band-gap narrowing is off",
+                    quoted(&value)
                 )),
             },
             K_MOBILITY => c.mobility_model = value,
@@ -409,7 +411,8 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
             K_GIVEN => match Given::from_key(&value) {
                 Some(g) => v.given = g,
                 None => notices.push(format!(
-                    "link: given '{value}' is not rho or n; resistivity is given"
+                    "link: given {} is not rho or n; resistivity is given",
+                    quoted(&value)
                 )),
             },
             K_VALUE => v.value = value,
@@ -440,6 +443,24 @@ pub fn initial(query: &str, saved: Option<&str>) -> (Workbench, Vec<String>) {
         Some(Ok(w)) => (w, Vec::new()),
         Some(Err(notice)) => (Workbench::default(), vec![notice]),
     }
+}
+
+/// Longest part of a link value a notice quotes, in characters.
+const QUOTED_MAX_CHARS: usize = 40;
+
+/// A link value as a notice quotes it: in single quotes, control characters, quotes and
+/// backslashes escaped (`\n`, `\u{7}`, `\'`) so that the notice shows exactly what arrived
+/// and nothing can break its line, and cut after [`QUOTED_MAX_CHARS`] characters with "…".
+fn quoted(value: &str) -> String {
+    let mut shown: String = value
+        .chars()
+        .take(QUOTED_MAX_CHARS)
+        .flat_map(char::escape_debug)
+        .collect();
+    if value.chars().nth(QUOTED_MAX_CHARS).is_some() {
+        shown.push('…');
+    }
+    format!("'{shown}'")
 }
 
 /// Splits `a=1&b=2` into decoded pairs, in order.

@@ -52,6 +52,13 @@ links! {
             "link: given 'y' is not rho or n; resistivity is given"
         ],
         |w| w == Workbench::default();
+    control_characters_in_a_value_are_shown_escaped: "view=a%0Ab%07" =>
+        ["link: view 'a\\nb\\u{7}' is unknown; showing the carriers view"],
+        |w| w.view == View::Carriers;
+    a_long_value_is_cut_in_the_notice: "bgn=yes-please-turn-band-gap-narrowing-on-for-this-one" =>
+        ["link: bgn 'yes-please-turn-band-gap-narrowing-on-fo…' is not 0 or 1; band-gap \
+          narrowing is off"],
+        |w| !w.carriers.band_gap_narrowing;
     foreign_keys_are_ignored: "t=77&utm_source=mail&fbclid=abc" =>
         [],
         |w| w.carriers.temperature == "77";

@@ -361,6 +361,16 @@ async fn a_saved_record_reopens_identically_and_a_changed_one_is_refused() {
         click(&client, "report-open").await;
         assert_eq!(report_results(&client).await, shown, "results differ after opening");
         click(&client, "report-close").await;
+        // The keyboard focus goes back to the button that opened the report: W3C WAI-ARIA
+        // Authoring Practices Guide, dialog (modal) pattern (from memory).
+        let focused = client
+            .execute(
+                "const e = document.activeElement; return e ? e.dataset.testid || '' : '';",
+                vec![],
+            )
+            .await
+            .expect("read the focused element");
+        assert_eq!(focused.as_str(), Some("report-open"), "focus after Close");
 
         // Now the page holds something else; refused records must leave it so.
         retype(&client, "temperature", "400 K").await;
