@@ -51,9 +51,10 @@ pub fn run(_args: &[String]) -> Result<(), String> {
         for run in runs {
             table.push((
                 format!(
-                    "cli lots, {} rows ({:.0} MB): wall / peak RSS",
+                    "cli lots, {} rows ({:.0} MB): wall (median of {}) / peak RSS",
                     run.rows,
-                    run.bytes as f64 / 1e6
+                    run.bytes as f64 / 1e6,
+                    streaming::RUNS
                 ),
                 format!(
                     "{} / {:.1} MB",
@@ -203,8 +204,8 @@ fn median_ns(json: &str) -> Option<f64> {
 }
 
 fn format_ns(ns: f64) -> String {
-    if ns >= 1e10 {
-        format!("{:.1} s", ns / 1e9)
+    if ns >= 1e9 {
+        format!("{:.2} s", ns / 1e9)
     } else if ns < 1e3 {
         format!("{ns:.1} ns")
     } else if ns < 1e6 {

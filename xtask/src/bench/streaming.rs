@@ -18,19 +18,23 @@ const LOTS: usize = 8;
 const WAFERS: usize = 25;
 /// Rows of the two files.
 const SIZES: [usize; 2] = [100_000, 10_000_000];
+/// Runs per file; the wall time reported is their median, the peak their largest.
+pub const RUNS: usize = 3;
 /// How often the high-water mark is read.
 const POLL: Duration = Duration::from_millis(5);
 
-/// One measured run of the CLI.
+/// The measured runs of the CLI over one file.
 pub struct Run {
     pub rows: usize,
     pub bytes: u64,
+    /// Median wall time of [`RUNS`] runs.
     pub wall: Duration,
+    /// Largest peak resident memory of the runs, KiB.
     pub peak_kib: u64,
 }
 
 /// Builds the release CLI, generates the files (kept in `target/bench-lots/` between runs) and
-/// measures one run of each.
+/// measures [`RUNS`] runs of each.
 pub fn measure() -> Result<Vec<Run>, String> {
     shell::run(shell::cargo().args(["build", "--release", "-p", "bandgauge-cli"]))?;
     let exe = root().join("target").join("release").join("bandgauge");
@@ -40,7 +44,17 @@ pub fn measure() -> Result<Vec<Run>, String> {
         .iter()
         .map(|&rows| {
             let file = generated(&dir, rows)?;
-            run_once(&exe, &file, rows)
+            let runs = (0..RUNS)
+                .map(|_| run_once(&exe, &file, rows))
+                .collect::<Result<Vec<_>, _>>()?;
+            let mut walls: Vec<Duration> = runs.iter().map(|r| r.wall).collect();
+            walls.sort();
+            Ok(Run {
+                rows,
+                bytes: runs[0].bytes,
+                wall: walls[walls.len() / 2],
+                peak_kib: runs.iter().map(|r| r.peak_kib).max().unwrap_or(0),
+            })
         })
         .collect()
 }
