@@ -7,6 +7,7 @@
 //! same. Charts are drawn again from the record's inputs onto images, which print.
 
 use bandgauge_core::empirical::EmpiricalRelation;
+use bandgauge_core::lots::{LotReport, WaferSummary};
 use leptos::prelude::*;
 
 use crate::Bench;
@@ -206,11 +207,43 @@ pub fn charts(record: &SignoffRecord) -> Vec<ChartSpec> {
                     .ok()
                     .flatten();
             let report = work.report(spec.as_ref());
-            lots_view::distribution_chart(&report, spec.as_ref(), None)
-                .into_iter()
-                .collect()
+            let mut charts: Vec<ChartSpec> =
+                lots_view::distribution_chart(&report, spec.as_ref(), None)
+                    .into_iter()
+                    .collect();
+            charts.extend(
+                report_wafers(&report)
+                    .into_iter()
+                    .filter_map(|(lot, wafer)| {
+                        lots_view::wafer_map(&work.sites, lot, wafer, spec.as_ref())
+                    }),
+            );
+            charts
         }
     }
+}
+
+/// Most wafer maps one report prints.
+const MAX_REPORT_WAFER_MAPS: usize = 8;
+
+/// The wafers a lot report maps: per lot, in the report's order, the wafer that decides its
+/// verdict (without a spec window, its first wafer), when it has sites with positions; at most
+/// [`MAX_REPORT_WAFER_MAPS`].
+fn report_wafers(report: &LotReport) -> Vec<(&str, &str)> {
+    report
+        .lots
+        .iter()
+        .filter_map(|l| {
+            let mapped = |w: &&WaferSummary| w.sites_with_position > 0;
+            let wafer = match &l.worst_wafer {
+                Some(worst) => l.wafer_results.iter().find(|w| &w.wafer == worst),
+                None => l.wafer_results.first(),
+            }
+            .filter(mapped)?;
+            Some((l.lot.as_str(), wafer.wafer.as_str()))
+        })
+        .take(MAX_REPORT_WAFER_MAPS)
+        .collect()
 }
 
 /// Applies an opened record to the page: lot files first (the one step that can be refused),
@@ -482,6 +515,29 @@ mod tests {
 
     const CREATED: &str = "2025-03-14T09:26:53.120Z";
 
+    #[test]
+    fn a_lot_report_maps_the_wafer_that_decides_each_lot() {
+        let mut work = LotsWork::new(None);
+        for (name, text) in DEMO_FILES {
+            work.read_text(name, text);
+        }
+        let spec = lots_view::spec_from_inputs("resistivity", DEMO_SPEC.0, DEMO_SPEC.1).unwrap();
+        let report = work.report(spec.as_ref());
+        let wafers = report_wafers(&report);
+        let lots: Vec<&str> = wafers.iter().map(|(lot, _)| *lot).collect();
+        assert_eq!(lots, ["C2-4417", "C2-4418", "C2-4421", "C2-4425"]);
+        // Source: demo-wafers/README.md (the invented scenario): wafer 07 decides C2-4425.
+        assert_eq!(wafers[3], ("C2-4425", "07"));
+        for (l, (lot, wafer)) in report.lots.iter().zip(&wafers) {
+            assert_eq!(l.worst_wafer.as_deref(), Some(*wafer), "{lot}");
+        }
+        // Without a window no wafer decides anything: each lot's first wafer is mapped.
+        let plain = work.report(None);
+        let first: Vec<(&str, &str)> = report_wafers(&plain);
+        assert_eq!(first[0], ("C2-4417", "01"));
+        assert_eq!(first.len(), 4);
+    }
+
     fn demo_snapshot(read_whole: bool) -> LotsSnapshot {
         let mut work = LotsWork::new(None);
         for (name, text) in DEMO_FILES {
@@ -578,7 +634,8 @@ mod tests {
             (View::Carriers, 1),
             (View::Sweep, 3),
             (View::Resistivity, 1),
-            (View::Lots, 1),
+            // The distribution chart and a wafer map for each of the four demo lots.
+            (View::Lots, 5),
         ] {
             let snapshot = demo_snapshot(true);
             let lots = (view == View::Lots).then_some(&snapshot);

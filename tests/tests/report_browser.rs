@@ -232,6 +232,27 @@ async fn lot_comparison_report_prints_the_spec_window_and_every_verdict() {
         }
         click(&client, "report-open").await;
         by_testid(&client, "report").await;
+        // The distribution chart and one wafer map per lot: the wafer that decides its verdict.
+        assert_eq!(report_chart_count(&client, 5).await, 5);
+        let titles = client
+            .execute(
+                "return Array.from(document.querySelectorAll('[data-testid=\"report-chart\"]')) \
+                 .map(i => i.alt);",
+                vec![],
+            )
+            .await
+            .expect("read the chart titles");
+        let titles: Vec<&str> = titles
+            .as_array()
+            .expect("a list of titles")
+            .iter()
+            .filter_map(|t| t.as_str())
+            .collect();
+        // Source: demo-wafers/README.md (the invented scenario): wafer 07 decides C2-4425.
+        assert!(
+            titles.contains(&"Wafer 07 of lot C2-4425"),
+            "report charts: {titles:?}"
+        );
         screenshot(&client, "report-lots-1366").await;
 
         let rows = report_results(&client).await;
