@@ -211,11 +211,19 @@ pub fn charts(record: &SignoffRecord) -> Vec<ChartSpec> {
                 lots_view::distribution_chart(&report, spec.as_ref(), None)
                     .into_iter()
                     .collect();
+            // Each map says why it is in the report.
+            let why = if spec.is_some() {
+                "the wafer that decides the lot's verdict"
+            } else {
+                "the lot's first wafer"
+            };
             charts.extend(
                 report_wafers(&report)
                     .into_iter()
                     .filter_map(|(lot, wafer)| {
-                        lots_view::wafer_map(&work.sites, lot, wafer, spec.as_ref())
+                        let mut map = lots_view::wafer_map(&work.sites, lot, wafer, spec.as_ref())?;
+                        map.title = format!("{}: {why}", map.title);
+                        Some(map)
                     }),
             );
             charts

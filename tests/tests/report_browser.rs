@@ -250,7 +250,7 @@ async fn lot_comparison_report_prints_the_spec_window_and_every_verdict() {
             .collect();
         // Source: demo-wafers/README.md (the invented scenario): wafer 07 decides C2-4425.
         assert!(
-            titles.contains(&"Wafer 07 of lot C2-4425"),
+            titles.contains(&"Wafer 07 of lot C2-4425: the wafer that decides the lot's verdict"),
             "report charts: {titles:?}"
         );
         screenshot(&client, "report-lots-1366").await;
