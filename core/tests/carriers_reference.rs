@@ -873,33 +873,31 @@ fn each_species_names_the_level_model_used() {
     assert_eq!(e.species[2].ionized_fraction, 1.0);
     assert_eq!(e.species[2].localized_fraction, 0.0);
     assert_eq!(e.species[2].level_from_band_edge_ev, 0.0);
-    let ionization: Vec<&str> = e
-        .models
-        .iter()
-        .filter(|u| u.quantity == "dopant ionization")
-        .map(|u| u.model.as_ref())
-        .collect();
     // One entry per model used, in fallback order; which species used which is in `species`.
-    assert_eq!(ionization.len(), 2, "{ionization:?}");
-    assert!(ionization[0].starts_with("Altermatt"), "{}", ionization[0]);
-    assert!(
-        ionization[1].starts_with("Pearson-Bardeen") && ionization[1].contains("merged"),
-        "{}",
-        ionization[1]
-    );
-    let sources: Vec<&str> = e
+    let ionization: Vec<(&str, &str)> = e
         .models
         .iter()
         .filter(|u| u.quantity == "dopant ionization")
-        .map(|u| u.source.as_ref())
+        .map(|u| (u.model.as_ref(), u.source.as_ref()))
         .collect();
-    assert!(sources[0].starts_with("Altermatt2006"), "{}", sources[0]);
+    assert_eq!(ionization.len(), 2, "{ionization:?}");
+    let [(altermatt, altermatt_source), (lowering, lowering_source)] = ionization[..] else {
+        unreachable!("two entries")
+    };
+    assert!(altermatt.starts_with("Altermatt"), "{altermatt}");
+    assert!(
+        altermatt_source.starts_with("Altermatt2006"),
+        "{altermatt_source}"
+    );
+    assert!(
+        lowering.starts_with("Pearson-Bardeen") && lowering.contains("merged"),
+        "{lowering}"
+    );
     // Pearson-Bardeen names its alpha source and the source of every E0 used (Sze for Sb,
     // Ga and In).
     assert!(
-        sources[1].starts_with("PearsonBardeen1949") && sources[1].contains("; E0: Sze"),
-        "{}",
-        sources[1]
+        lowering_source.starts_with("PearsonBardeen1949") && lowering_source.contains("; E0: Sze"),
+        "{lowering_source}"
     );
     // Other materials keep the constant level, and `dilute` applies it everywhere.
     let gaas = materials::gallium_arsenide();
