@@ -66,9 +66,16 @@ pub fn run(_args: &[String]) -> Result<(), String> {
     });
     let browser = browser_rows(&mut table);
     println!();
-    println!("{:<56} {:>24}", "benchmark (median)", "time");
+    // Wide enough for the longest name, so that every value lines up.
+    let width = table
+        .iter()
+        .map(|(name, _)| name.len())
+        .max()
+        .unwrap_or(0)
+        .max(56);
+    println!("{:<width$} {:>24}", "benchmark (median)", "time");
     for (name, value) in &table {
-        println!("{name:<56} {value:>24}");
+        println!("{name:<width$} {value:>24}");
     }
     streamed.and(browser)
 }
