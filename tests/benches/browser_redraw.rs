@@ -9,6 +9,7 @@
 //! add time, so each view is measured in three rounds of 21 inputs and the best median is kept.
 
 use bandgauge_tests::browser::{by_testid, with_browser};
+use bandgauge_tests::lot_rows::LotRows;
 use bandgauge_tests::ui::{TempFile, canvas_drawn, click, run_script};
 use std::time::{Duration, Instant};
 
@@ -58,36 +59,24 @@ fn median(mut v: Vec<f64>) -> f64 {
     v[v.len() / 2]
 }
 
-/// Rows of the generated lot file: 4 lots x 25 wafers x 1000 sites.
-const LOT_ROWS: usize = 100_000;
+/// The generated lot file: 4 lots x 25 wafers x 1000 sites = 100,000 rows of boron.
+const LOT_FILE: LotRows = LotRows {
+    lots: 4,
+    wafers: 25,
+    sites_per_wafer: 1000,
+    dopant: "B",
+    lot_prefix: "BL",
+};
 /// Files read for the lot-file median, after a first read that is reported on its own (it
 /// includes the browser compiling the reader's code to its fastest tier).
 const LOT_RUNS: usize = 6;
 /// How long one read may take before the benchmark gives up.
 const LOT_WAIT: Duration = Duration::from_secs(120);
 
-/// A lot file of `LOT_ROWS` rows with invented resistivities (demo data).
-fn lot_file() -> String {
-    let mut text = String::from("lot,wafer,site,x [mm],y [mm],dopant,resistivity [ohm-cm]\n");
-    for row in 0..LOT_ROWS {
-        let (lot, wafer, site) = (row / 25_000, (row / 1000) % 25, row % 1000);
-        let value =
-            9.0 + lot as f64 * 0.3 + wafer as f64 * 0.02 + ((site * 31) % 1000) as f64 / 2000.0;
-        let (x, y) = (
-            (site % 40) as f64 * 3.0 - 60.0,
-            (site / 40) as f64 * 3.0 - 36.0,
-        );
-        text.push_str(&format!(
-            "BL{lot}-52,{wafer:02},{site},{x},{y},B,{value:.3}\n"
-        ));
-    }
-    text
-}
-
 /// Milliseconds from picking each file (the input's change event) to the page saying it has
-/// read all `LOT_ROWS` rows (the summary is drawn in the same update).
+/// read all rows of [`LOT_FILE`] (the summary is drawn in the same update).
 async fn lot_read_times(client: &fantoccini::Client) -> Vec<f64> {
-    let text = lot_file();
+    let text = LOT_FILE.text();
     let mut times = Vec::new();
     for run in 0..LOT_RUNS {
         let file = TempFile::new("bench", &format!("lots-100k-{run}.csv"), &text);

@@ -1,4 +1,5 @@
 //! Shared harness for bandgauge's cross-crate and browser tests.
 
 pub mod browser;
+pub mod lot_rows;
 pub mod ui;

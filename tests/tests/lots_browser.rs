@@ -8,6 +8,7 @@ use bandgauge_core::lots::{
     LotBook, ReadOptions, RowCounts, RowOutcome, SpecQuantity, SpecWindow, Verdict, read_str,
 };
 use bandgauge_tests::browser::{by_testid, screenshot, text_until, with_browser};
+use bandgauge_tests::lot_rows::LotRows;
 use bandgauge_tests::ui::{TempFile, canvas_drawn, choose, click, run_script, text_of};
 use fantoccini::{Client, Locator};
 use std::path::{Path, PathBuf};
@@ -540,40 +541,22 @@ async fn markup_in_a_lot_id_is_shown_as_text() {
     .await;
 }
 
-/// Sites per wafer in the large generated file.
-const LARGE_SITES_PER_WAFER: usize = 1000;
-/// Lots and wafers in the large generated file: 4 x 25 x 1000 = 100,000 rows.
-const LARGE_LOTS: usize = 4;
-const LARGE_WAFERS: usize = 25;
+/// The large generated file: 4 lots x 25 wafers x 1000 sites = 100,000 rows.
+const LARGE: LotRows = LotRows {
+    lots: 4,
+    wafers: 25,
+    sites_per_wafer: 1000,
+    dopant: "P",
+    lot_prefix: "L",
+};
 /// A file read in pieces shows at least this many distinct percentages before it is done.
 const MIN_PROGRESS_STEPS: usize = 3;
-
-fn large_file() -> String {
-    let mut text = String::from("lot,wafer,site,x [mm],y [mm],dopant,resistivity [ohm-cm]\n");
-    for lot in 0..LARGE_LOTS {
-        for wafer in 0..LARGE_WAFERS {
-            for site in 0..LARGE_SITES_PER_WAFER {
-                // Invented values: lots 0.3 ohm cm apart, wafers 0.02 apart, sites over 0.5.
-                let value = 9.0
-                    + lot as f64 * 0.3
-                    + wafer as f64 * 0.02
-                    + ((site * 31) % 1000) as f64 / 2000.0;
-                let x = (site % 40) as f64 * 3.0 - 60.0;
-                let y = (site / 40) as f64 * 3.0 - 36.0;
-                text.push_str(&format!(
-                    "L{lot}-77,{wafer:02},{site},{x},{y},P,{value:.3}\n"
-                ));
-            }
-        }
-    }
-    text
-}
 
 #[tokio::test(flavor = "multi_thread")]
 async fn a_large_file_is_read_in_pieces_with_visible_progress() {
     with_browser(LAPTOP.0, LAPTOP.1, |client, base| async move {
-        let text = large_file();
-        let rows = (LARGE_LOTS * LARGE_WAFERS * LARGE_SITES_PER_WAFER) as u64;
+        let text = LARGE.text();
+        let rows = LARGE.rows() as u64;
         let file = TempFile::new("lots", "large-lots.csv", &text);
         open_lots(&client, &base).await;
         // Record every status the page shows, whether the progress bar is there, and how many
@@ -641,8 +624,8 @@ async fn a_large_file_is_read_in_pieces_with_visible_progress() {
             percents.len(),
             ticks(last) - ticks(first)
         );
-        let cells = summary_cells(&client, "L0-77").await;
-        assert_eq!(cells[3], (LARGE_WAFERS * LARGE_SITES_PER_WAFER).to_string());
+        let cells = summary_cells(&client, "L0").await;
+        assert_eq!(cells[3], (LARGE.wafers * LARGE.sites_per_wafer).to_string());
         screenshot(&client, "lots-large-1366").await;
     })
     .await;

@@ -8,6 +8,12 @@
 //! process ends is its peak to within what it allocated in its last few milliseconds.
 
 use crate::shell::{self, root};
+// The same generator as the browser test and benchmark (plain std, so it is shared by path);
+// xtask writes its files row by row and leaves the in-memory helpers to the tests.
+#[allow(dead_code)]
+#[path = "../../../tests/src/lot_rows.rs"]
+mod lot_rows;
+use lot_rows::LotRows;
 use std::io::Write as _;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Stdio};
@@ -71,26 +77,15 @@ fn generated(dir: &Path, rows: usize) -> Result<PathBuf, String> {
         .map_err(|e| format!("cannot create {}: {e}", partial.display()))?;
     let mut out = std::io::BufWriter::new(file);
     let fail = |e: std::io::Error| format!("cannot write {}: {e}", partial.display());
-    writeln!(
-        out,
-        "lot,wafer,site,x [mm],y [mm],dopant,resistivity [ohm-cm]"
-    )
-    .map_err(fail)?;
-    let sites = rows / (LOTS * WAFERS);
-    for lot in 0..LOTS {
-        for wafer in 0..WAFERS {
-            for site in 0..sites {
-                // Invented values: lots 0.25 ohm cm apart, wafers 0.01 apart, sites over 0.5.
-                let value = 9.0
-                    + lot as f64 * 0.25
-                    + wafer as f64 * 0.01
-                    + ((site * 37) % 1000) as f64 / 2000.0;
-                let x = (site % 100) as f64 * 1.5 - 74.25;
-                let y = ((site / 100) % 100) as f64 * 1.5 - 74.25;
-                writeln!(out, "BX{lot}-31,{wafer:02},{site},{x},{y},P,{value:.3}").map_err(fail)?;
-            }
-        }
+    LotRows {
+        lots: LOTS,
+        wafers: WAFERS,
+        sites_per_wafer: rows / (LOTS * WAFERS),
+        dopant: "P",
+        lot_prefix: "BX",
     }
+    .write_to(&mut out)
+    .map_err(fail)?;
     out.flush().map_err(fail)?;
     drop(out);
     std::fs::rename(&partial, &path)
