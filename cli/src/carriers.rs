@@ -245,7 +245,7 @@ fn dopant_argument(request: &CarriersRequest, symbol: &str) -> &'static str {
     match request
         .doping
         .iter()
-        .find(|d| *d.dopant.symbol == *symbol)
+        .find(|d| d.dopant.symbol == symbol)
         .map(|d| d.dopant.kind)
     {
         Some(DopantKind::Acceptor) => "--acceptor",

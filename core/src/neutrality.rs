@@ -580,7 +580,7 @@ impl<'a> Problem<'a> {
             levels.push(Level {
                 kind: d.dopant.kind,
                 localized,
-                ln_degeneracy: ln_degeneracy(d.dopant.degeneracy),
+                ln_degeneracy: d.dopant.degeneracy.ln(),
                 ionization_energy_ev,
                 effective,
             });
@@ -822,10 +822,10 @@ impl<'a> Problem<'a> {
     /// n = n_x/2 + sqrt(n_x^2/4 + ni^2), and Fermi-Dirac statistics by the leading terms of
     /// Joyce & Dixon, Appl. Phys. Lett. 31, 354 (1977), with u = n/Nc:
     /// eta = ln u + u/sqrt(8) - 4.95009e-3 u^2 + 1.48386e-4 u^3 (the occupancies take e^eta,
-    /// so the quadratic is solved a second time with that correction). In silicon at 300 K this lands within 1e-7 of the
-    /// root in h up to 1e17 cm^-3 (1e-11 at 1e15), so the first evaluation or one Newton step
-    /// finishes; None (the general guess below takes over) for degenerate, undoped or
-    /// out-of-range cases.
+    /// so the quadratic is solved a second time with that correction). In silicon at 300 K
+    /// this lands within 1e-7 of the root in h up to 1e17 cm^-3 (1e-11 at 1e15), so the first
+    /// evaluation or one Newton step finishes; None (the general guess below takes over) for
+    /// degenerate, undoped or out-of-range cases.
     fn nondegenerate_guess(&self, f: &Frame) -> Option<f64> {
         let net = self.donors_cm3 - self.acceptors_cm3;
         if net == 0.0 || !f.level_factors_finite {
@@ -880,7 +880,7 @@ impl<'a> Problem<'a> {
             let extrinsic = band * t;
             let majority = 0.5 * extrinsic + (0.25 * extrinsic * extrinsic + ni_squared).sqrt();
             reduced = majority / band;
-            // Past 0.1 the two Joyce-Dixon terms lose accuracy; such material is near
+            // Past 0.1 the Joyce-Dixon terms used below lose accuracy; such material is near
             // degenerate.
             if !(reduced.is_normal() && reduced < 0.1) {
                 return None;
@@ -1343,18 +1343,6 @@ const DILUTE_DESCRIPTION: &str = "dilute: constant level, 1/(1 + g exp(+-(E_F - 
 /// settle it without comparing the bytes.
 fn same_text(a: &str, b: &str) -> bool {
     (std::ptr::eq(a.as_ptr(), b.as_ptr()) && a.len() == b.len()) || a == b
-}
-
-/// ln g, exact and without a logarithm for the degeneracy factors of the common dopants
-/// (2 for donors, 4 for acceptors in silicon and germanium).
-fn ln_degeneracy(g: f64) -> f64 {
-    if g == 2.0 {
-        std::f64::consts::LN_2
-    } else if g == 4.0 {
-        2.0 * std::f64::consts::LN_2
-    } else {
-        g.ln()
-    }
 }
 
 /// Online log-sum-exp: the sum is e^max * sum, and slope_sum / sum is the
