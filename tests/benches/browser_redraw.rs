@@ -80,6 +80,14 @@ async fn lot_read_times(client: &fantoccini::Client) -> Vec<f64> {
     let mut times = Vec::new();
     for run in 0..LOT_RUNS {
         let file = TempFile::new("bench", &format!("lots-100k-{run}.csv"), &text);
+        let done = format!("1 file(s) read: {} rows read", LOT_FILE.rows());
+        client
+            .execute(
+                "window.__lot_done = arguments[0];",
+                vec![serde_json::json!(done)],
+            )
+            .await
+            .expect("set the status the read ends with");
         run_script(
             client,
             r#"
@@ -90,7 +98,7 @@ async fn lot_read_times(client: &fantoccini::Client) -> Vec<f64> {
                 new MutationObserver(function () {
                     const s = document.querySelector('[data-testid="lots-status"]').textContent;
                     if (window.__t0 !== null && window.__t1 === null
-                        && s.startsWith('1 file(s) read: 100000 rows read')) {
+                        && s.startsWith(window.__lot_done)) {
                         window.__t1 = performance.now();
                     }
                 }).observe(document.body, { subtree: true, childList: true, characterData: true });

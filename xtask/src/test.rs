@@ -91,6 +91,7 @@ pub fn run(args: &[String]) -> Result<(), String> {
     if !args.is_empty() {
         return Err(format!("test takes no arguments, got: {}", args.join(" ")));
     }
+    warn_when_disk_is_short();
     let mut tally = Tally::default();
     tally.gate("install build tools", tools::ensure_build_tools());
     tally.gate("install chromium", tools::ensure_chromium());
@@ -166,9 +167,56 @@ pub fn run(args: &[String]) -> Result<(), String> {
     }
 }
 
+/// Disk a clean run takes: target/ measured 2.5 GB after a clean-clone run, plus the
+/// temporary lot files and browser profiles of the browser tests.
+const DISK_NEEDED_GB: f64 = 3.5;
+
+/// Warns up front when the disk that holds the workspace has less free space than a clean
+/// run takes, so a full disk reads as such and not as a compiler crash twelve minutes in.
+/// Not a gate: an already built target/ needs far less.
+fn warn_when_disk_is_short() {
+    let out = shell::capture(Command::new("df").args(["-Pk"]).arg(root()));
+    let Some(free_gb) = out
+        .ok()
+        .and_then(|o| free_gb_from_df(&String::from_utf8_lossy(&o.stdout)))
+    else {
+        return;
+    };
+    if free_gb < DISK_NEEDED_GB {
+        eprintln!(
+            "xtask: warning: {free_gb:.1} GB free on the disk that holds {}; a clean run \
+             needs about {DISK_NEEDED_GB} GB (compiles may fail with 'No space left on device')",
+            root().display()
+        );
+    }
+}
+
+/// Free gigabytes (10^9 bytes) from `df -Pk` output: the fourth field of the second line.
+fn free_gb_from_df(text: &str) -> Option<f64> {
+    let kib: f64 = text
+        .lines()
+        .nth(1)?
+        .split_whitespace()
+        .nth(3)?
+        .parse()
+        .ok()?;
+    Some(kib * 1024.0 / 1e9)
+}
+
 #[cfg(test)]
 mod tests {
-    use super::parse_result_line;
+    use super::{free_gb_from_df, parse_result_line};
+
+    #[test]
+    fn reads_free_space_from_df() {
+        // Source: the POSIX `df -P` output format (1024-byte blocks with -k), common
+        // practice, no source.
+        let out = "Filesystem     1024-blocks      Used Available Capacity Mounted on\n\
+                   /dev/vda         263174212  89128532 161278128      36% /\n";
+        let gb = free_gb_from_df(out).expect("a free figure");
+        assert!((gb - 161_278_128.0 * 1024.0 / 1e9).abs() < 1e-9);
+        assert_eq!(free_gb_from_df("Filesystem\n"), None);
+    }
 
     #[test]
     fn parses_harness_lines() {
