@@ -61,7 +61,7 @@ pub const LN_U_MAX: f64 = 1064.389;
 
 /// Joyce & Dixon, Appl. Phys. Lett. 31, 354 (1977): `eta = ln u + sum_i A_i u^i`,
 /// `|error| <= 4e-3` for `u <= 8.46`. `A_1 = 1/sqrt(8)`.
-const JOYCE_DIXON: [f64; 4] = [
+pub(crate) const JOYCE_DIXON: [f64; 4] = [
     std::f64::consts::FRAC_1_SQRT_2 / 2.0,
     -4.950_09e-3,
     1.483_86e-4,
@@ -343,14 +343,20 @@ fn newton_ln_f_half(ln_u: f64) -> Result<(f64, usize), FermiDiracError> {
 /// Joyce-Dixon start for `u <= 8.46`, inverted two-term Sommerfeld series above.
 fn starting_eta(ln_u: f64) -> f64 {
     if ln_u <= LN_JOYCE_DIXON_MAX {
-        let u = ln_u.exp();
-        ln_u + u * polynomial(&JOYCE_DIXON, u)
+        joyce_dixon(ln_u, ln_u.exp())
     } else {
         let x = ((ln_u - LN_INV_GAMMA_5_2) * (2.0 / 3.0))
             .exp()
             .min(f64::MAX);
         x - PI_SQUARED_OVER_12 / x
     }
+}
+
+/// The Joyce-Dixon inverse `eta = ln u + sum_i A_i u^i` ([`JOYCE_DIXON`]), with `ln u` from the
+/// caller; `|error| <= 4e-3` for `u <= 8.46`, and far smaller for `u << 1`.
+#[inline]
+pub(crate) fn joyce_dixon(ln_u: f64, u: f64) -> f64 {
+    ln_u + u * polynomial(&JOYCE_DIXON, u)
 }
 
 /// `ln F_1/2(eta)` and its slope `F_-1/2(eta) / F_1/2(eta)`, both without

@@ -503,9 +503,6 @@ struct Frame {
     level_factors_finite: bool,
 }
 
-/// 1/sqrt(8), the first-order Fermi-Dirac term of the Joyce-Dixon inverse.
-const FRAC_1_SQRT_8: f64 = 0.5 * std::f64::consts::FRAC_1_SQRT_2;
-
 /// Species whose per-temperature factors a frame holds without a heap allocation.
 const INLINE_SPECIES: usize = 4;
 
@@ -819,10 +816,10 @@ impl<'a> Problem<'a> {
     /// first order in G t where most are ionized; with t = n/Nc (Boltzmann), neutrality
     /// Nc t + M = F + L/(1 + G t) (M the minority dopants, F the always-ionized majority) is
     /// the quadratic Nc G t^2 + (Nc + (M - F) G) t - net = 0. Then the intrinsic carriers,
-    /// n = n_x/2 + sqrt(n_x^2/4 + ni^2), and Fermi-Dirac statistics by the leading terms of
-    /// Joyce & Dixon, Appl. Phys. Lett. 31, 354 (1977), with u = n/Nc:
-    /// eta = ln u + u/sqrt(8) - 4.95009e-3 u^2 + 1.48386e-4 u^3 (the occupancies take e^eta,
-    /// so the quadratic is solved a second time with that correction). In silicon at 300 K
+    /// n = n_x/2 + sqrt(n_x^2/4 + ni^2), and Fermi-Dirac statistics by the inverse of Joyce &
+    /// Dixon, Appl. Phys. Lett. 31, 354 (1977), with u = n/Nc: eta = ln u + u/sqrt(8) - ...
+    /// ([`fd::joyce_dixon`]; the occupancies take e^eta, so the quadratic is solved a second
+    /// time with the first-order correction). In silicon at 300 K
     /// this lands within 1e-7 of the root in h up to 1e17 cm^-3 (1e-11 at 1e15), so the first
     /// evaluation or one Newton step finishes; None (the general guess below takes over) for
     /// degenerate, undoped or out-of-range cases.
@@ -864,7 +861,8 @@ impl<'a> Problem<'a> {
         // second pass solves the quadratic again with the factor scaled by that correction.
         let mut reduced = 0.0;
         for _ in 0..2 {
-            let factor = mean_factor * (1.0 + reduced * FRAC_1_SQRT_8);
+            // A_1 = 1/sqrt(8), the first-order Fermi-Dirac term of the Joyce-Dixon inverse.
+            let factor = mean_factor * (1.0 + reduced * fd::JOYCE_DIXON[0]);
             let t = if factor > 0.0 {
                 let a = band * factor;
                 let b = band + (minority - fixed) * factor;
@@ -886,8 +884,7 @@ impl<'a> Problem<'a> {
                 return None;
             }
         }
-        let eta = reduced.ln()
-            + reduced * (FRAC_1_SQRT_8 + reduced * (-4.950_09e-3 + reduced * 1.483_86e-4));
+        let eta = fd::joyce_dixon(reduced.ln(), reduced);
         Some(if kind == DopantKind::Donor {
             f.gap + eta
         } else {
@@ -1277,7 +1274,7 @@ impl<'a> Problem<'a> {
             let seen = used
                 .clone()
                 .take(i)
-                .any(|(e, _)| source(e).is_some_and(|t| same_text(t.as_ref(), text.as_ref())));
+                .any(|(e, _)| source(e).is_some_and(|t| t.as_ref() == text.as_ref()));
             (!seen).then_some(text)
         });
         let Some(first) = distinct.next() else {
@@ -1338,12 +1335,6 @@ const PEARSON_BARDEEN_DESCRIPTION: &str = "Pearson-Bardeen: level E0 - alpha N^(
      merged with the band (level 0 eV) and the species counts as fully ionized";
 /// `models` text of the constant level.
 const DILUTE_DESCRIPTION: &str = "dilute: constant level, 1/(1 + g exp(+-(E_F - E_level)/kT))";
-
-/// Equal texts; the built-in sources are one static text each, so the pointers usually
-/// settle it without comparing the bytes.
-fn same_text(a: &str, b: &str) -> bool {
-    (std::ptr::eq(a.as_ptr(), b.as_ptr()) && a.len() == b.len()) || a == b
-}
 
 /// Online log-sum-exp: the sum is e^max * sum, and slope_sum / sum is the
 /// term-weighted mean of the terms' d ln / du.
