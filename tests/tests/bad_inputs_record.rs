@@ -3,7 +3,7 @@
 //! each with the exact message (`RecordError`'s text) the page shows.
 //!
 //! A damaged file is written out as text; a record edited on purpose is "re-sealed" with the
-//! digest its edited contents give (SHA-256 of the canonical JSON, as app/src/record.rs
+//! digest its edited contents give (SHA-256 of the canonical JSON, as app/src/record/mod.rs
 //! documents), so that the check after the digest is the one that refuses it.
 
 use bandgauge_app::record::{
