@@ -15,7 +15,7 @@ use bandgauge_core::empirical::{
 use bandgauge_core::materials;
 use bandgauge_core::mobility::MobilityModel;
 use bandgauge_core::neutrality::SolveOptions;
-use bandgauge_core::probe::{self, ProbeReading, ProbeResult, ReadingTemperature};
+use bandgauge_core::probe::{self, ProbeGeometry, ProbeReading, ProbeResult, ReadingTemperature};
 use bandgauge_core::resistivity::{self, PhysicsOptions};
 use bandgauge_core::units::QuantityKind;
 use leptos::prelude::*;
@@ -159,9 +159,12 @@ pub struct ProbeInputs {
     pub volts: entry::Parsed,
     /// Spacing, cm.
     pub spacing_cm: entry::Parsed,
-    /// Thickness, cm; `None` for a bulk sample.
+    /// The sample geometry.
+    pub geometry: Result<ProbeGeometry, String>,
+    /// Thickness, cm; `None` when not known (a thin layer then gives only its sheet
+    /// resistance, a bulk sample is taken as semi-infinite).
     pub thickness_cm: Result<Option<f64>, String>,
-    /// Wafer diameter, cm; `None` for no edge correction.
+    /// Wafer diameter, cm (thin layers); `None` for no edge correction.
     pub diameter_cm: Result<Option<f64>, String>,
     /// Temperature of the reading, C; `None` for 23 C.
     pub temperature_c: Result<Option<f64>, String>,
@@ -184,6 +187,12 @@ pub fn read_probe(c: &crate::state::ConversionInputs) -> ProbeInputs {
             QuantityKind::Length,
             "cm",
         ),
+        geometry: ProbeGeometry::from_id(&c.probe_geometry).ok_or_else(|| {
+            format!(
+                "sample geometry: '{}' is not known; choose thin layer or bulk",
+                c.probe_geometry
+            )
+        }),
         thickness_cm: optional_positive(
             "thickness",
             &c.sample_thickness,
@@ -229,6 +238,7 @@ pub fn evaluate_probe(p: &ProbeInputs, dopant: &str) -> Option<Result<ProbeResul
         volts: p.volts.clone().ok()?,
         amps: p.amps.clone().ok()?,
         spacing_cm: p.spacing_cm.clone().ok()?,
+        geometry: p.geometry.clone().ok()?,
         thickness_cm: p.thickness_cm.clone().ok()?,
         diameter_cm: p.diameter_cm.clone().ok()?,
         temperature,
@@ -246,6 +256,11 @@ pub fn models_used(probe: Option<&ProbeResult>) -> Vec<(String, String, String)>
         EMPIRICAL_REFERENCE.to_string(),
     )];
     if let Some(r) = probe {
+        list.push((
+            "probe geometry".to_string(),
+            r.geometry.id().to_string(),
+            r.geometry.describe().to_string(),
+        ));
         list.extend(r.corrections.iter().map(|c| {
             (
                 format!("probe {} correction", c.name),
@@ -260,6 +275,33 @@ pub fn models_used(probe: Option<&ProbeResult>) -> Vec<(String, String, String)>
         );
     }
     list
+}
+
+/// The sample geometries of the probe, as select choices.
+fn geometry_choices() -> Vec<Choice> {
+    ProbeGeometry::ALL
+        .into_iter()
+        .map(|g| {
+            let text = match g {
+                ProbeGeometry::ThinLayer => "Thin layer or wafer (sheet resistance)",
+                ProbeGeometry::Bulk => "Bulk sample, semi-infinite (resistivity)",
+            };
+            (g.id().to_string(), text.to_string())
+        })
+        .collect()
+}
+
+/// What the chosen geometry computes, one line under the choice.
+fn geometry_hint(geometry: Result<ProbeGeometry, String>) -> String {
+    match geometry {
+        Ok(ProbeGeometry::ThinLayer) => "Rs = (π/ln 2)·V/I × corrections; ρ = Rs·t only with a \
+                                         thickness; the diameter corrects Rs (Smits)"
+            .to_string(),
+        Ok(ProbeGeometry::Bulk) => "ρ = 2π·s·V/I (ingot, thick piece); a thickness adds the \
+                                    finite-thickness factor; no diameter correction"
+            .to_string(),
+        Err(_) => String::new(),
+    }
 }
 
 /// The dopant species the conversion covers: silicon species with an empirical relation.
@@ -355,6 +397,10 @@ pub fn ResistivityView(
         |w| &w.conversion.probe_spacing,
         |w| &mut w.conversion.probe_spacing,
     );
+    let (probe_geometry, set_probe_geometry) = bench.text(
+        |w| &w.conversion.probe_geometry,
+        |w| &mut w.conversion.probe_geometry,
+    );
     let (thickness, set_thickness) = bench.text(
         |w| &w.conversion.sample_thickness,
         |w| &mut w.conversion.sample_thickness,
@@ -376,7 +422,7 @@ pub fn ResistivityView(
         },
     );
     let probe_density = Memo::new(move |_| {
-        let rho = probe_shown.get()?.resistivity_ohm_cm;
+        let rho = probe_shown.get()?.resistivity_ohm_cm?;
         Some(
             empirical::convert("si", &dopant.get(), EmpiricalInput::ResistivityOhmCm(rho))
                 .map_err(|e| e.to_string()),
@@ -460,9 +506,14 @@ pub fn ResistivityView(
                     error=field_error(|p| p.volts.clone().err()) />
                 <NumberField id="probe-spacing" label="Probe spacing" hint="mm, um, cm" value=probe_spacing on_input=set_probe_spacing
                     error=field_error(|p| p.spacing_cm.clone().err()) />
-                <NumberField id="probe-thickness" label="Sample thickness" hint="empty for a bulk sample" value=thickness
+                <SelectField id="probe-geometry-choice" label="Sample geometry" choices=Signal::derive(geometry_choices)
+                    value=probe_geometry on_change=set_probe_geometry error=field_error(|p| p.geometry.clone().err()) />
+                <p class="hint" data-testid="probe-geometry-hint">
+                    {move || probe_inputs.with(|p| geometry_hint(p.geometry.clone()))}
+                </p>
+                <NumberField id="probe-thickness" label="Sample thickness" hint="um, mm, cm; empty: a thin layer gives Rs only, a bulk sample is semi-infinite" value=thickness
                     on_input=set_thickness error=field_error(|p| p.thickness_cm.clone().err()) />
-                <NumberField id="probe-diameter" label="Wafer diameter" hint="empty for no edge correction" value=diameter
+                <NumberField id="probe-diameter" label="Wafer diameter" hint="thin layer only (Smits); empty for no edge correction" value=diameter
                     on_input=set_diameter error=field_error(|p| p.diameter_cm.clone().err()) />
                 <NumberField id="probe-temperature" label="Temperature of the reading" hint="C or K; corrected to 23 C"
                     value=probe_temperature on_input=set_probe_temperature error=field_error(|p| p.temperature_c.clone().err()) />
@@ -480,10 +531,10 @@ pub fn ResistivityView(
                     </div>
                     <dl class="results big-results">
                         <ResultLine id="probe-sheet" term="Sheet resistance Rs" unit="Ω/□"
-                            value=probe_value(|r| r.sheet_resistance_ohm_sq.map(format::auto).unwrap_or_else(|| "— (bulk)".into())) />
+                            value=probe_value(|r| r.sheet_resistance_ohm_sq.map(format::auto).unwrap_or_else(|| "— (bulk, no thickness)".into())) />
                         <ResultLine id="probe-resistivity" term="Resistivity ρ (23 C)" unit="Ω·cm"
-                            value=probe_value(|r| format::auto(r.resistivity_ohm_cm)) />
-                        <ResultLine id="probe-geometry" term="Geometry" value=probe_value(|r| r.geometry.to_string()) />
+                            value=probe_value(|r| r.resistivity_ohm_cm.map(format::auto).unwrap_or_else(|| "— (thin layer: give its thickness)".into())) />
+                        <ResultLine id="probe-geometry" term="Geometry" value=probe_value(|r| geometry_words(r.geometry).to_string()) />
                         <ResultLine id="probe-density" term="Dopant density (empirical)" unit="cm⁻³"
                             value=Signal::derive(move || match probe_density.get() {
                                 Some(Ok(c)) => format::sci(c.density_cm3),
@@ -540,6 +591,40 @@ fn ValueField(
     }
 }
 
+/// The row of the comparison that is a bound rather than a conversion.
+pub const PHONON_LIMIT: ConversionModel = ConversionModel::Physics(MobilityModel::Lattice);
+
+/// What the phonon-limit row says instead of the core's answer or refusal.
+pub const PHONON_LIMIT_REMARK: &str = "phonon limit: lattice scattering only, a bound for pure silicon; not a conversion, not in the spread";
+
+/// The remark of one row of the side-by-side table, and whether the row is the phonon limit
+/// (a bound, shown in grey with one short line in place of the core's answer or refusal; the
+/// other rows keep their error, source and notes).
+pub fn model_remark(a: &ModelAnswer) -> (String, bool) {
+    if a.model == PHONON_LIMIT {
+        return (PHONON_LIMIT_REMARK.to_string(), true);
+    }
+    let mut remarks = Vec::new();
+    if let Some(e) = &a.error {
+        remarks.push(e.clone());
+    }
+    if a.model == ConversionModel::Empirical {
+        remarks.push(EMPIRICAL_REFERENCE.to_string());
+    } else if let ConversionModel::Physics(m) = a.model {
+        remarks.push(m.reference().to_string());
+    }
+    remarks.extend(a.notes.iter().cloned());
+    (remarks.join("; "), false)
+}
+
+/// The geometry of a probe result in words, for the result line.
+pub fn geometry_words(geometry: ProbeGeometry) -> &'static str {
+    match geometry {
+        ProbeGeometry::ThinLayer => "thin layer or wafer",
+        ProbeGeometry::Bulk => "bulk sample (semi-infinite)",
+    }
+}
+
 /// Every model's answer side by side, with the deviation from the empirical relation.
 #[component]
 fn ComparisonTable(shown: Memo<Option<(Given, Comparison)>>) -> impl IntoView {
@@ -584,25 +669,19 @@ fn ComparisonTable(shown: Memo<Option<(Given, Comparison)>>) -> impl IntoView {
                                 }
                                 _ => String::new(),
                             };
-                            let mut remarks = Vec::new();
-                            if let Some(e) = &a.error {
-                                remarks.push(e.clone());
-                            }
-                            if a.model == ConversionModel::Empirical {
-                                remarks.push(EMPIRICAL_REFERENCE.to_string());
-                            } else if let ConversionModel::Physics(m) = a.model {
-                                remarks.push(m.reference().to_string());
-                            }
-                            remarks.extend(a.notes.iter().cloned());
-                            let bad = a.error.is_some();
+                            let (remark, bound) = model_remark(&a);
+                            let bad = a.error.is_some() && !bound;
+                            let deviation = if bound { String::new() } else { deviation };
                             view! {
-                                <tr>
+                                <tr class:bound=bound>
                                     <th scope="row">{a.model_name.clone()}</th>
                                     <td data-testid=format!("model-{}", a.model.id())>
                                         {value.map(format::auto).unwrap_or_else(|| "—".into())}
                                     </td>
                                     <td>{deviation}</td>
-                                    <td class:note=!bad class:bad=bad>{remarks.join("; ")}</td>
+                                    <td class:note=!bad class:bad=bad data-testid=format!("model-{}-remark", a.model.id())>
+                                        {remark}
+                                    </td>
                                 </tr>
                             }
                         })
@@ -638,6 +717,27 @@ mod tests {
     }
 
     #[test]
+    fn the_lattice_row_is_the_phonon_limit_not_an_error() {
+        // 10 ohm cm of boron is below what lattice-only mobility reaches: the core refuses it,
+        // and the table shows the bound in one grey line instead of the refusal.
+        let c = compare_at_23c(Given::Resistivity, 10.0, "B").expect("compares");
+        let lattice = c
+            .answers
+            .iter()
+            .find(|a| a.model == PHONON_LIMIT)
+            .expect("listed");
+        assert!(lattice.error.is_some());
+        assert_eq!(
+            model_remark(lattice),
+            (PHONON_LIMIT_REMARK.to_string(), true)
+        );
+        // Real refusals keep their message.
+        let c = compare_at_23c(Given::Resistivity, 1e6, "P").expect("compares");
+        let (remark, bound) = model_remark(&c.answers[0]);
+        assert!(!bound && remark.contains("outside"), "{remark}");
+    }
+
+    #[test]
     fn out_of_range_models_report_their_reason() {
         let c = compare_at_23c(Given::Resistivity, 1e6, "P").expect("compares");
         assert!(c.answers[0].error.is_some());
@@ -669,7 +769,20 @@ mod tests {
         let p = read_probe(&c);
         assert_eq!(p.thickness_cm, Ok(None));
         let r = evaluate_probe(&p, "B").expect("valid").expect("evaluates");
-        assert_eq!(r.geometry, "semi-infinite");
+        assert_eq!(r.geometry, ProbeGeometry::ThinLayer);
+        assert_eq!(
+            r.resistivity_ohm_cm, None,
+            "a thin layer without thickness: Rs only"
+        );
+        c.probe_geometry = "bulk".into();
+        let r = evaluate_probe(&read_probe(&c), "B")
+            .expect("valid")
+            .expect("evaluates");
+        assert_eq!(r.geometry, ProbeGeometry::Bulk);
+        assert_eq!(r.sheet_resistance_ohm_sq, None);
+        c.probe_geometry = "slab".into();
+        assert!(read_probe(&c).geometry.is_err());
+        assert_eq!(evaluate_probe(&read_probe(&c), "B"), None);
         c.probe_current = "0".into();
         assert!(read_probe(&c).amps.is_err());
     }
@@ -683,6 +796,7 @@ mod tests {
             volts: p.volts.clone().expect("V"),
             amps: p.amps.clone().expect("A"),
             spacing_cm: 0.1,
+            geometry: ProbeGeometry::ThinLayer,
             thickness_cm: Some(0.0525),
             diameter_cm: Some(15.0),
             temperature: None,

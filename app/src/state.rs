@@ -173,6 +173,8 @@ pub struct ConversionInputs {
     pub probe_voltage: String,
     /// Probe pin spacing as typed.
     pub probe_spacing: String,
+    /// Sample geometry of the probe reading: a `ProbeGeometry` id (`thin-layer`, `bulk`).
+    pub probe_geometry: String,
     /// Sample thickness as typed.
     pub sample_thickness: String,
     /// Wafer diameter as typed.
@@ -190,6 +192,7 @@ impl Default for ConversionInputs {
             probe_current: "1 mA".into(),
             probe_voltage: "4.5 mV".into(),
             probe_spacing: "1 mm".into(),
+            probe_geometry: "thin-layer".into(),
             sample_thickness: "525 um".into(),
             wafer_diameter: "150 mm".into(),
             probe_temperature: "23 C".into(),
@@ -282,9 +285,10 @@ const K_PROBE_S: &str = "s";
 const K_PROBE_T: &str = "w";
 const K_PROBE_D: &str = "dia";
 const K_PROBE_TEMP: &str = "tp";
+const K_PROBE_GEOMETRY: &str = "geom";
 
 /// Every key this page writes; a query with none of them is not a workbench link.
-const ALL_KEYS: [&str; 21] = [
+const ALL_KEYS: [&str; 22] = [
     K_VIEW,
     K_MATERIAL,
     K_TEMPERATURE,
@@ -306,6 +310,7 @@ const ALL_KEYS: [&str; 21] = [
     K_PROBE_T,
     K_PROBE_D,
     K_PROBE_TEMP,
+    K_PROBE_GEOMETRY,
 ];
 
 /// The state as a URL query string (without the leading `?`). Every field is written,
@@ -348,6 +353,7 @@ pub fn to_query(w: &Workbench) -> String {
         (K_PROBE_T, v.sample_thickness.clone()),
         (K_PROBE_D, v.wafer_diameter.clone()),
         (K_PROBE_TEMP, v.probe_temperature.clone()),
+        (K_PROBE_GEOMETRY, v.probe_geometry.clone()),
     ]);
     pairs
         .iter()
@@ -423,6 +429,7 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
             K_PROBE_T => v.sample_thickness = value,
             K_PROBE_D => v.wafer_diameter = value,
             K_PROBE_TEMP => v.probe_temperature = value,
+            K_PROBE_GEOMETRY => v.probe_geometry = value,
             _ => {} // Keys of other tools sharing the URL are none of our business.
         }
     }
@@ -555,6 +562,7 @@ mod tests {
                 probe_current: "0.1".into(),
                 probe_voltage: "μV 3".into(),
                 probe_spacing: "1.59 mm".into(),
+                probe_geometry: "bulk".into(),
                 sample_thickness: "380 um".into(),
                 wafer_diameter: "200 mm".into(),
                 probe_temperature: "25 C".into(),

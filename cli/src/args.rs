@@ -178,13 +178,22 @@ pub struct ProbeArgs {
     #[arg(long, value_name = "S", allow_hyphen_values = true)]
     pub spacing: String,
 
-    /// Layer or wafer thickness: 0.0525, 525um. Without it only the sheet
-    /// resistance is given.
+    /// Sample geometry: thin-layer (default; a diffused, implanted or deposited
+    /// layer or a thin wafer: sheet resistance Rs = (pi/ln 2) V/I times the
+    /// corrections, resistivity Rs x thickness only with --thickness) or bulk
+    /// (ingot or thick piece, semi-infinite: resistivity = 2 pi s V/I).
+    #[arg(long, value_name = "GEOMETRY", default_value = "thin-layer")]
+    pub geometry: String,
+
+    /// Layer or wafer thickness: 0.0525, 525um. Applies the exact
+    /// finite-thickness correction; on a thin layer it also gives the
+    /// resistivity (without it only the sheet resistance is given).
     #[arg(long, value_name = "T", allow_hyphen_values = true)]
     pub thickness: Option<String>,
 
-    /// Wafer diameter, probe at the centre: 15, 150mm. Without it the wafer is
-    /// taken as laterally infinite.
+    /// Wafer diameter, probe at the centre: 15, 150mm (thin layers only).
+    /// Corrects the sheet resistance for the wafer's edge (Smits 1958), with or
+    /// without a thickness. Without it the layer is taken as laterally infinite.
     #[arg(long, value_name = "D", allow_hyphen_values = true)]
     pub diameter: Option<String>,
 
@@ -203,7 +212,8 @@ pub struct ProbeArgs {
     pub material: String,
 
     /// Dopant species of the sample, e.g. B or P: needed for the temperature
-    /// correction; with it the dopant density and its interval are given too.
+    /// correction; with it the dopant density and its interval are given too
+    /// (both need a resistivity: --thickness on a thin layer, or --geometry bulk).
     #[arg(long, value_name = "SPECIES")]
     pub dopant: Option<String>,
 

@@ -2,8 +2,10 @@
 //! per lot and wafer with verdicts and lot-to-lot tests, writes converted rows on request.
 //!
 //! Exit codes (its own, so it is dispatched from `main` before the other commands): 0 every
-//! row converted; 3 some rows were rejected (each listed on stderr with file and line); 2
-//! unusable input (bad option, missing file, no usable header); 1 a write failed.
+//! row converted; 3 some rows were rejected (each listed on stderr with file and line) or, among
+//! several files, some were not lot files and were skipped (each named on stderr with the
+//! reason); 2 unusable input (bad option, missing file, a lot file without a usable header, a
+//! single file that is not a lot file, or no lot file among several); 1 a write failed.
 
 use std::fmt::Write as _;
 use std::fs::File;
@@ -23,6 +25,10 @@ use crate::output::{self, Table};
 
 /// Exit code when some rows were rejected but the rest were summarised.
 pub const EXIT_ROWS_REJECTED: u8 = 3;
+
+/// The multiplicity adjustment of the pairwise p-values, named beside every result.
+const HOLM: &str = "Holm step-down adjustment over all pairs tested, Holm (1979), Scand. J. \
+                    Statist. 6, 65-70";
 
 /// Bytes read from a file per step: large enough for speed, small enough that memory does not
 /// depend on the file.
@@ -100,6 +106,9 @@ impl LotsRequest {
 enum Stop {
     /// Unusable input: exit code 2.
     Unusable(String),
+    /// The file is not a lot file at all (nothing of it was read): skipped among several
+    /// files, else exit code 2.
+    NotALotFile(String),
     /// A write failed: exit code 1.
     Write(io::Error),
 }
@@ -128,7 +137,7 @@ pub fn main(args: &LotsArgs) -> ExitCode {
     match result {
         Ok(0) => ExitCode::SUCCESS,
         Ok(_) => ExitCode::from(EXIT_ROWS_REJECTED),
-        Err(Stop::Unusable(message)) => {
+        Err(Stop::Unusable(message) | Stop::NotALotFile(message)) => {
             eprintln!("error: {message}");
             ExitCode::from(EXIT_BAD_INPUT)
         }
@@ -141,7 +150,8 @@ pub fn main(args: &LotsArgs) -> ExitCode {
     }
 }
 
-/// Reads every file, prints the summary, and gives the number of rejected rows.
+/// Reads every file, prints the summary, and gives the number of rejected rows plus skipped
+/// files.
 fn run(request: &LotsRequest, out: &mut impl Write) -> Result<u64, Stop> {
     // Open every file first, so that a missing one stops the command before any output.
     let mut files = Vec::new();
@@ -165,9 +175,27 @@ fn run(request: &LotsRequest, out: &mut impl Write) -> Result<u64, Stop> {
     let stderr = io::stderr();
     let mut err = BufWriter::new(stderr.lock());
     let mut notes = Vec::new();
+    let several = files.len() > 1;
+    let mut skipped = 0;
     for (path, file) in files {
-        let file_notes = read_file(path, file, request, &mut book, rows_out.as_mut(), &mut err)?;
-        notes.extend(file_notes);
+        match read_file(path, file, request, &mut book, rows_out.as_mut(), &mut err) {
+            Ok(file_notes) => notes.extend(file_notes),
+            Err(Stop::NotALotFile(reason)) if several => {
+                let message = format!("skipped {}: not a lot file: {reason}", path.display());
+                writeln!(err, "{message}")?;
+                notes.push(message);
+                skipped += 1;
+            }
+            Err(Stop::NotALotFile(reason)) => {
+                return Err(Stop::Unusable(format!("{}: {reason}", path.display())));
+            }
+            Err(stop) => return Err(stop),
+        }
+    }
+    if skipped == request.files.len() {
+        return Err(Stop::Unusable(format!(
+            "none of the {skipped} files is a lot file (each is named above with the reason)"
+        )));
     }
     if let Some(writer) = rows_out.as_mut() {
         writer.flush()?;
@@ -182,10 +210,14 @@ fn run(request: &LotsRequest, out: &mut impl Write) -> Result<u64, Stop> {
             .map_err(|e| Stop::Write(io::Error::other(e)))?;
         writeln!(out)?;
     } else {
-        write!(out, "{}", tables(&report, request.files.len(), &notes))?;
+        write!(
+            out,
+            "{}",
+            tables(&report, request.files.len() - skipped, skipped, &notes)
+        )?;
     }
     err.flush()?;
-    Ok(report.counts.rejected)
+    Ok(report.counts.rejected + skipped as u64)
 }
 
 /// Streams one file into the book; returns its notes (prefixed with the file name).
@@ -223,7 +255,13 @@ fn read_file(
             write_error = Some(error);
         }
     };
-    let unusable = |e: bandgauge_core::lots::LotFileError| Stop::Unusable(format!("{name}: {e}"));
+    let unusable = |e: bandgauge_core::lots::LotFileError| {
+        if e.is_not_a_lot_file() {
+            Stop::NotALotFile(e.to_string())
+        } else {
+            Stop::Unusable(format!("{name}: {e}"))
+        }
+    };
     loop {
         let read = file
             .read(&mut buffer)
@@ -247,7 +285,7 @@ fn read_file(
 }
 
 /// Columns of the `--rows` CSV file.
-const ROWS_HEADER: [&str; 14] = [
+const ROWS_HEADER: [&str; 15] = [
     "file",
     "line",
     "lot",
@@ -257,6 +295,7 @@ const ROWS_HEADER: [&str; 14] = [
     "y_mm",
     "dopant",
     "measurement",
+    "probe_geometry",
     "sheet_resistance_ohm_sq",
     "resistivity_ohm_cm",
     "density_cm3",
@@ -271,16 +310,17 @@ fn write_row(
     spec: Option<&SpecWindow>,
 ) -> io::Result<()> {
     let optional = |v: Option<f64>| v.map(output::exact).unwrap_or_default();
-    let sheet = match site.measurement {
-        Measurement::Resistivity => None,
+    let (sheet, geometry) = match site.measurement {
+        Measurement::Resistivity => (None, ""),
         Measurement::SheetResistance {
             sheet_resistance_ohm_sq,
             ..
-        }
-        | Measurement::Probe {
+        } => (Some(sheet_resistance_ohm_sq), ""),
+        Measurement::Probe {
             sheet_resistance_ohm_sq,
+            geometry,
             ..
-        } => Some(sheet_resistance_ohm_sq),
+        } => (sheet_resistance_ohm_sq, geometry.id()),
     };
     let in_window = spec.map_or("", |window| {
         let value = match window.quantity() {
@@ -291,7 +331,7 @@ fn write_row(
     });
     writeln!(
         writer,
-        "{},{},{},{},{},{},{},{},{},{},{},{},{},{}",
+        "{},{},{},{},{},{},{},{},{},{},{},{},{},{},{}",
         csv_field(file),
         site.line,
         csv_field(site.lot),
@@ -301,6 +341,7 @@ fn write_row(
         optional(site.y_mm),
         site.dopant,
         site.measurement.name(),
+        geometry,
         optional(sheet),
         output::exact(site.resistivity_ohm_cm),
         output::exact(site.density_cm3),
@@ -357,6 +398,8 @@ fn json_lots(report: &LotReport) -> Value {
                         "t": sign * d.test.t,
                         "dof": d.test.dof,
                         "p_value": d.test.p_value,
+                        "p_adjusted": d.p_adjusted,
+                        "adjustment": HOLM,
                         "significant": d.significant,
                     }))
                 })
@@ -389,12 +432,17 @@ fn model_for(report: &LotReport, lot: &LotSummary) -> String {
 }
 
 /// The text report.
-fn tables(report: &LotReport, files: usize, notes: &[String]) -> String {
+fn tables(report: &LotReport, files: usize, skipped: usize, notes: &[String]) -> String {
     let mut out = String::new();
     let c = report.counts;
+    let skipped = if skipped > 0 {
+        format!(" ({skipped} other file(s) skipped: not lot files, see the notes)")
+    } else {
+        String::new()
+    };
     let _ = writeln!(
         out,
-        "Lots from {files} file(s): {} rows read, {} converted, {} rejected",
+        "Lots from {files} file(s){skipped}: {} rows read, {} converted, {} rejected",
         c.read, c.converted, c.rejected
     );
     let _ = writeln!(out, "Model: {}", report.model);
@@ -555,7 +603,7 @@ fn tables(report: &LotReport, files: usize, notes: &[String]) -> String {
             let _ = writeln!(
                 out,
                 "  {} vs {}: {:.1} % {direction} (95 % CI {:+.1} to {:+.1} %); Welch t = {:.2}, \
-                 df = {:.1}, p = {}: {}",
+                 df = {:.1}, p = {}, Holm-adjusted p = {}: {}",
                 d.lot_b,
                 d.lot_a,
                 d.percent.abs(),
@@ -564,11 +612,19 @@ fn tables(report: &LotReport, files: usize, notes: &[String]) -> String {
                 d.test.t,
                 d.test.dof,
                 output::number(d.test.p_value),
+                output::number(d.p_adjusted),
                 if d.significant {
                     "significant"
                 } else {
                     "not significant"
                 }
+            );
+        }
+        if !report.differences.is_empty() {
+            let _ = writeln!(
+                out,
+                "  ({} pairs; a pair is significant when its adjusted p < 0.05; {HOLM})",
+                report.differences.len()
             );
         }
         if let Some(k) = &report.kruskal_wallis {
@@ -609,7 +665,10 @@ fn tables(report: &LotReport, files: usize, notes: &[String]) -> String {
     let _ = writeln!(
         out,
         "\n{}",
-        output::caution("Thurber et al. empirical relation")
+        output::caution(
+            "Thurber et al. empirical relation; lot-to-lot p-values adjusted by Holm (1979), \
+             Scand. J. Statist. 6, 65-70"
+        )
     );
     out
 }

@@ -8,7 +8,9 @@ use bandgauge_core::empirical::EMPIRICAL_TEMPERATURE_K;
 use bandgauge_core::materials::Material;
 use bandgauge_core::mobility::{ConductivityType, MobilityModel};
 use bandgauge_core::neutrality::SolveOptions;
-use bandgauge_core::probe::{self, ProbeError, ProbeReading, ProbeResult, ReadingTemperature};
+use bandgauge_core::probe::{
+    self, ProbeError, ProbeGeometry, ProbeReading, ProbeResult, ReadingTemperature,
+};
 use bandgauge_core::uncertainty::{
     self, Interval, Measured, MeasuredInput, UncertaintyError, UncertaintyRequest,
 };
@@ -73,6 +75,24 @@ impl ProbeRequest {
             &args.spacing_uncertainty,
             Length,
         )?;
+        let geometry = ProbeGeometry::from_id(&args.geometry).ok_or_else(|| {
+            BadInput::new(
+                "--geometry",
+                format!(
+                    "{:?} is not a sample geometry; allowed: thin-layer (sheet resistance of a \
+                     layer or thin wafer; resistivity with --thickness) or bulk (semi-infinite \
+                     sample: resistivity)",
+                    args.geometry
+                ),
+            )
+        })?;
+        if geometry == ProbeGeometry::Bulk && args.diameter.is_some() {
+            return Err(BadInput::new(
+                "--diameter",
+                "the diameter correction (Smits 1958) is for a thin layer or wafer, not a bulk \
+                 sample; leave --diameter out or use --geometry thin-layer",
+            ));
+        }
         let thickness_cm = match &args.thickness {
             Some(text) => Some(read(
                 "--thickness",
@@ -111,11 +131,20 @@ impl ProbeRequest {
             }),
             _ => None,
         };
+        if geometry == ProbeGeometry::ThinLayer && args.thickness.is_none() && args.dopant.is_some()
+        {
+            return Err(BadInput::new(
+                "--dopant",
+                "a dopant density needs the resistivity, which a thin layer gives only with its \
+                 thickness: add --thickness, or --geometry bulk for a bulk sample",
+            ));
+        }
         Ok(ProbeRequest {
             reading: ProbeReading {
                 volts: volts.value,
                 amps: amps.value,
                 spacing_cm: spacing_cm.value,
+                geometry,
                 thickness_cm: thickness_cm.map(|t| t.value),
                 diameter_cm,
                 temperature,
@@ -225,9 +254,8 @@ fn probe_error(error: ProbeError) -> BadInput {
             "resistivity_ohm_cm" => "--volts",
             _ => "--spacing",
         },
-        ProbeError::DiameterTooSmall { .. } | ProbeError::DiameterNeedsThickness { .. } => {
-            "--diameter"
-        }
+        ProbeError::DiameterTooSmall { .. } | ProbeError::DiameterOnBulk { .. } => "--diameter",
+        ProbeError::ResistivityNeedsThickness { .. } => "--thickness",
         // The voltage over the current sets the scale of every result.
         ProbeError::OutOfRange { .. } => "--volts",
         _ => "--temperature-c",
@@ -283,6 +311,7 @@ pub fn run(request: &ProbeRequest, out: &mut impl Write) -> Result<(), CliError>
                     volts: request.volts,
                     amps: request.amps,
                     spacing_cm: request.spacing_cm,
+                    geometry: request.reading.geometry,
                     thickness_cm: request.thickness_cm,
                     diameter_cm: request.reading.diameter_cm,
                 },
@@ -331,6 +360,7 @@ fn to_json(
         "diameter_cm": r.diameter_cm,
         "temperature_c": r.temperature.as_ref().map(|t| t.temperature_c),
         "geometry": result.geometry,
+        "geometry_meaning": result.geometry.describe(),
         "sheet_resistance_ohm_sq": result.sheet_resistance_ohm_sq,
         "resistivity_ohm_cm": result.resistivity_ohm_cm,
         "corrections": corrections,
@@ -354,12 +384,10 @@ fn to_json(
 }
 
 fn caution(result: &ProbeResult, sample: Option<&Sample>) -> String {
-    let mut models = vec![match result.geometry {
-        "semi-infinite" => {
-            "four-point probe on a semi-infinite body, rho = 2 pi s V/I (Valdes 1954)".to_owned()
-        }
-        _ => "four-point probe on a layer, R_s = (pi/ln 2) V/I (Valdes 1954)".to_owned(),
-    }];
+    let mut models = vec![format!(
+        "four-point probe on a {}",
+        result.geometry.describe()
+    )];
     for c in &result.corrections {
         models.push(format!("{} correction as listed", c.name));
     }
@@ -397,7 +425,9 @@ fn table(request: &ProbeRequest, result: &ProbeResult, interval: Option<&Interva
     } else {
         "resistivity"
     };
-    values.value_row(at, result.resistivity_ohm_cm, "ohm-cm");
+    if let Some(rho) = result.resistivity_ohm_cm {
+        values.value_row(at, rho, "ohm-cm");
+    }
     if let (Some(sample), Some(interval)) = (&request.sample, interval) {
         values.value_row(
             format!("{} density", sample.dopant),
@@ -408,7 +438,11 @@ fn table(request: &ProbeRequest, result: &ProbeResult, interval: Option<&Interva
         values.value_row("density interval high", interval.high, "cm^-3");
     }
     text.push_str(&values.render());
-    text.push_str(&format!("  geometry: {}\n", result.geometry));
+    text.push_str(&format!(
+        "  geometry: {} ({})\n",
+        result.geometry,
+        result.geometry.describe()
+    ));
     if let (Some(sample), Some(interval)) = (&request.sample, interval) {
         text.push_str(&format!(
             "  density model: {} ({}-type), interval driven by: {}\n",

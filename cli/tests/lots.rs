@@ -269,3 +269,138 @@ fn unusable_input_exits_2() {
     std::fs::remove_file(headerless).ok();
     std::fs::remove_file(no_dopant).ok();
 }
+
+#[test]
+fn a_file_that_is_not_a_lot_file_is_skipped_among_several() {
+    // `lots demo-wafers/*` as the README writes it: the folder's README.md is named as skipped
+    // and the four lots are still summarised, exit 3.
+    let mut files = all_demo_files();
+    files.push(demo("README.md"));
+    let mut args: Vec<&str> = vec!["lots"];
+    args.extend(files.iter().map(String::as_str));
+    args.extend(["--spec-resistivity", "8:12"]);
+    let run = bandgauge(&args);
+    assert_eq!(run.code, EXIT_ROWS_REJECTED, "stderr: {}", run.stderr);
+    let skipped = format!("skipped {}: not a lot file: line 3: ", demo("README.md"));
+    assert!(
+        run.stderr.lines().any(|l| l.starts_with(&skipped)),
+        "{}",
+        run.stderr
+    );
+    assert!(
+        run.stdout
+            .starts_with("Lots from 4 file(s) (1 other file(s) skipped"),
+        "{}",
+        run.stdout
+    );
+    assert!(
+        run.stdout.contains(&format!("  - {skipped}")),
+        "{}",
+        run.stdout
+    );
+    for id in ["C2-4417", "C2-4418", "C2-4421", "C2-4425"] {
+        assert!(
+            run.stdout.contains(&format!("\n  {id} ")),
+            "{id}: {}",
+            run.stdout
+        );
+    }
+
+    // Files without any rejected row: the skipped file alone makes the exit code 3.
+    let notes = scratch("notes.txt", "Shift notes: furnace 3 back in service.\n");
+    let empty = scratch("empty.csv", "");
+    let run = bandgauge(&["lots", &demo("c2-4417.csv"), &notes, &empty]);
+    assert_eq!(run.code, EXIT_ROWS_REJECTED, "{}", run.stderr);
+    assert!(
+        run.stderr
+            .contains(&format!("skipped {notes}: not a lot file")),
+        "{}",
+        run.stderr
+    );
+    assert!(
+        run.stderr
+            .contains(&format!("skipped {empty}: not a lot file: no header line")),
+        "{}",
+        run.stderr
+    );
+    assert!(run.stdout.contains("C2-4417"));
+
+    // A single file that is not a lot file, or only such files, still exits 2.
+    let run = bandgauge(&["lots", &notes]);
+    assert_eq!(run.code, EXIT_BAD_INPUT);
+    assert!(
+        run.stderr.starts_with(&format!("error: {notes}: line 1: ")),
+        "{}",
+        run.stderr
+    );
+    assert!(run.stdout.is_empty());
+    let run = bandgauge(&["lots", &notes, &empty]);
+    assert_eq!(run.code, EXIT_BAD_INPUT);
+    assert!(
+        run.stderr
+            .contains("error: none of the 2 files is a lot file"),
+        "{}",
+        run.stderr
+    );
+    assert!(run.stdout.is_empty());
+
+    // A lot file with a fault in its header is not skipped: the batch is refused, exit 2.
+    let faulty = scratch("faulty.csv", "lot,wafer,resistivity\nA,1,10\n");
+    let run = bandgauge(&["lots", &demo("c2-4417.csv"), &faulty]);
+    assert_eq!(run.code, EXIT_BAD_INPUT);
+    assert!(run.stderr.contains("no dopant"), "{}", run.stderr);
+    for file in [notes, empty, faulty] {
+        std::fs::remove_file(file).ok();
+    }
+}
+
+#[test]
+fn pairwise_p_values_are_shown_raw_and_holm_adjusted() {
+    let files = all_demo_files();
+    let mut args: Vec<&str> = vec!["lots"];
+    args.extend(files.iter().map(String::as_str));
+    args.push("--json");
+    let run = bandgauge(&args);
+    let lots: Value = serde_json::from_str(&run.stdout).expect("JSON on stdout");
+    let mut pairs = 0;
+    for entry in lots.as_array().unwrap() {
+        for versus in entry["versus"].as_array().unwrap() {
+            let (raw, adjusted) = (number(versus, "p_value"), number(versus, "p_adjusted"));
+            assert!(raw <= adjusted && adjusted <= 1.0, "{versus}");
+            assert_eq!(versus["significant"], adjusted < 0.05, "{versus}");
+            assert!(
+                versus["adjustment"]
+                    .as_str()
+                    .unwrap()
+                    .contains("Holm (1979)")
+            );
+            pairs += 1;
+        }
+    }
+    // Four lots: six pairs, each listed under both of its lots.
+    assert_eq!(pairs, 12);
+    // Source: Holm, Scand. J. Statist. 6, 65-70 (1979): the smallest of m p-values is
+    // multiplied by m. Here m = 6 and the smallest is C2-4421 against C2-4417.
+    let versus = lot(&lots, "C2-4421")["versus"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|v| v["lot"] == "C2-4417")
+        .unwrap()
+        .clone();
+    assert!(
+        relative_difference(
+            number(&versus, "p_adjusted"),
+            6.0 * number(&versus, "p_value")
+        ) < 1e-12
+    );
+    // The table shows both p-values, the rule and the source.
+    args.pop();
+    let text = bandgauge(&args).stdout;
+    assert!(text.contains(", Holm-adjusted p = "), "{text}");
+    assert!(
+        text.contains("(6 pairs; a pair is significant when its adjusted p < 0.05; Holm step-down"),
+        "{text}"
+    );
+    assert!(text.contains("Holm (1979), Scand. J. Statist. 6, 65-70"));
+}

@@ -6,7 +6,7 @@ use std::f64::consts::{LN_2, PI};
 
 use bandgauge_core::materials;
 use bandgauge_core::mobility::MobilityModel;
-use bandgauge_core::probe::{self, ProbeReading, ReadingTemperature};
+use bandgauge_core::probe::{self, ProbeGeometry, ProbeReading, ReadingTemperature};
 use serde_json::Value;
 use support::{assert_near, json, number, refused, relative_difference, success, usage_error};
 
@@ -29,6 +29,7 @@ fn reading(thickness_cm: Option<f64>, diameter_cm: Option<f64>) -> ProbeReading 
         volts: 0.0125,
         amps: 0.001,
         spacing_cm: 0.1,
+        geometry: ProbeGeometry::ThinLayer,
         thickness_cm,
         diameter_cm,
         temperature: None,
@@ -36,14 +37,102 @@ fn reading(thickness_cm: Option<f64>, diameter_cm: Option<f64>) -> ProbeReading 
 }
 
 #[test]
-fn semi_infinite_body() {
-    let output = json("probe --volts 0.0125 --amps 0.001 --spacing 0.1 --json");
-    // Source: Valdes, Proc. IRE 42, 420 (1954): rho = 2 pi s V/I for a semi-infinite body.
-    let expected = 2.0 * PI * 0.1 * 12.5;
-    assert_near(&output, "resistivity_ohm_cm", expected, FORMULA_ROUNDING);
-    assert!(output["sheet_resistance_ohm_sq"].is_null());
-    assert_eq!(output["geometry"], "semi-infinite");
+fn thin_layer_is_the_default_and_gives_the_sheet_resistance() {
+    let output = json("probe --volts 0.01 --amps 0.001 --spacing 0.1 --json");
+    // Source: Valdes, Proc. IRE 42, 420 (1954): R_s = (pi/ln 2) V/I on a thin sheet,
+    // pi/ln 2 = 4.5324, so 10 ohm gives 45.32 ohm/sq.
+    assert_near(&output, "sheet_resistance_ohm_sq", 45.324, 1e-5);
+    assert_eq!(
+        format!("{:.2}", number(&output, "sheet_resistance_ohm_sq")),
+        "45.32"
+    );
+    assert!(
+        output["resistivity_ohm_cm"].is_null(),
+        "no thickness, no resistivity"
+    );
+    assert_eq!(output["geometry"], "thin-layer");
+    assert!(
+        output["geometry_meaning"]
+            .as_str()
+            .unwrap()
+            .starts_with("thin layer or wafer")
+    );
+    assert!(output["caution"].as_str().unwrap().contains("thin layer"));
+    let notes = output["notes"].as_array().unwrap();
+    assert!(
+        notes
+            .iter()
+            .any(|n| n.as_str().unwrap().contains("thin-layer assumption"))
+    );
     assert_eq!(output["corrections"], serde_json::json!({}));
+    // The table says the same.
+    let text = success("probe --volts 0.01 --amps 0.001 --spacing 0.1");
+    assert!(text.contains("sheet resistance  45.32  ohm/sq"), "{text}");
+    assert!(
+        text.contains("geometry: thin-layer (thin layer or wafer"),
+        "{text}"
+    );
+    assert!(
+        !text
+            .lines()
+            .any(|l| l.trim_start().starts_with("resistivity")),
+        "{text}"
+    );
+}
+
+#[test]
+fn a_diameter_without_a_thickness_corrects_the_sheet_resistance() {
+    let output = json("probe --volts 0.01 --amps 0.001 --spacing 0.1 --diameter 1 --json");
+    // Source: Smits, Bell Syst. Tech. J. 37, 711 (1958), closed form for a centred probe on a
+    // circular slice, C = pi / (ln 2 + ln((D^2 + 3)/(D^2 - 3))); at D = d/s = 10, C = 4.17119,
+    // so R_s = C V/I = 41.7119 ohm/sq (thin-layer assumption: no thickness given).
+    assert_near(&output, "sheet_resistance_ohm_sq", 41.7119, 3e-6);
+    assert!(output["resistivity_ohm_cm"].is_null());
+    assert_eq!(output["geometry"], "thin-layer");
+    let corrections = output["corrections"].as_object().unwrap();
+    assert_eq!(corrections.keys().collect::<Vec<_>>(), ["diameter"]);
+}
+
+#[test]
+fn bulk_sample() {
+    let output = json("probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry bulk --json");
+    // Source: Valdes, Proc. IRE 42, 420 (1954): rho = 2 pi s V/I for a semi-infinite body:
+    // 2 pi x 0.1 cm x 10 ohm = 6.283 ohm cm.
+    assert_near(
+        &output,
+        "resistivity_ohm_cm",
+        2.0 * PI * 0.1 * 10.0,
+        FORMULA_ROUNDING,
+    );
+    assert_eq!(
+        format!("{:.3}", number(&output, "resistivity_ohm_cm")),
+        "6.283"
+    );
+    assert!(output["sheet_resistance_ohm_sq"].is_null());
+    assert_eq!(output["geometry"], "bulk");
+    assert!(output["caution"].as_str().unwrap().contains("bulk sample"));
+    // With a thickness the bulk form carries the same image series: the same resistivity as a
+    // thin layer of that thickness (Valdes 1954; Uhlir 1955), and a sheet resistance rho/t.
+    let bulk = json(
+        "probe --volts 0.0125 --amps 0.001 --spacing 0.1 --thickness 0.0525 --geometry bulk --json",
+    );
+    let layer = json("probe --volts 0.0125 --amps 0.001 --spacing 0.1 --thickness 0.0525 --json");
+    for key in ["resistivity_ohm_cm", "sheet_resistance_ohm_sq"] {
+        assert!(
+            relative_difference(number(&bulk, key), number(&layer, key)) < 1e-12,
+            "{key}"
+        );
+    }
+    // The density and its interval work on a bulk sample without a thickness.
+    let with_dopant = json(
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry bulk --dopant B \
+         --volts-uncertainty 1% --json",
+    );
+    let density = number(&with_dopant, "density_cm3");
+    assert!(
+        number(&with_dopant["interval"], "low") < density
+            && density < number(&with_dopant["interval"], "high")
+    );
 }
 
 #[test]
@@ -67,7 +156,11 @@ fn json_has_every_correction_by_name_and_equals_the_core_result() {
         "sheet_resistance_ohm_sq",
         core.sheet_resistance_ohm_sq.unwrap(),
     );
-    assert_same_as_core(&output, "resistivity_ohm_cm", core.resistivity_ohm_cm);
+    assert_same_as_core(
+        &output,
+        "resistivity_ohm_cm",
+        core.resistivity_ohm_cm.unwrap(),
+    );
     let corrections = output["corrections"].as_object().unwrap();
     assert_eq!(
         corrections.keys().collect::<Vec<_>>(),
@@ -118,7 +211,11 @@ fn temperature_correction_to_23_c() {
         mobility: MobilityModel::Masetti,
     });
     let core = probe::evaluate(&with_temperature).unwrap();
-    assert_same_as_core(&output, "resistivity_ohm_cm", core.resistivity_ohm_cm);
+    assert_same_as_core(
+        &output,
+        "resistivity_ohm_cm",
+        core.resistivity_ohm_cm.unwrap(),
+    );
     let factor = number(&output["corrections"]["temperature"], "factor");
     // Common practice, no source: silicon near room temperature is lattice-scattering
     // limited, so a reading 2 K above 23 C is a little high and is corrected downwards.
@@ -190,7 +287,8 @@ fn table_shows_the_results_and_the_caution() {
     );
     let caution = text.lines().last().unwrap();
     assert!(caution.starts_with(
-        "Caution: model estimates (four-point probe on a layer, R_s = (pi/ln 2) V/I (Valdes 1954)"
+        "Caution: model estimates (four-point probe on a thin layer or wafer: sheet resistance R_s \
+         = (pi/ln 2) V/I x corrections, resistivity R_s t only with a thickness (Valdes 1954)"
     ));
     assert!(
         caution.ends_with(
@@ -227,8 +325,17 @@ fn refused_geometries() {
         "--diameter: 0.15 cm is too small for probe spacing 0.1 cm; the diameter correction needs diameter > sqrt(3) x spacing = 0.1732 cm",
     );
     refused(
-        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --diameter 15",
-        "--diameter: 15 cm given without thickness_cm; the diameter correction (Smits 1958) is for a thin wafer, give its thickness",
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry bulk --diameter 15",
+        "--diameter: the diameter correction (Smits 1958) is for a thin layer or wafer, not a bulk sample; leave --diameter out or use --geometry thin-layer",
+    );
+    refused(
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry slab",
+        "--geometry: \"slab\" is not a sample geometry; allowed: thin-layer (sheet resistance of a layer or thin wafer; resistivity with --thickness) or bulk (semi-infinite sample: resistivity)",
+    );
+    // A density needs a resistivity: a thin layer without a thickness has none.
+    refused(
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --dopant B",
+        "--dopant: a dopant density needs the resistivity, which a thin layer gives only with its thickness: add --thickness, or --geometry bulk for a bulk sample",
     );
     // A thickness-to-spacing ratio beyond f64 is one the thickness correction cannot handle.
     refused(
@@ -240,31 +347,31 @@ fn refused_geometries() {
 #[test]
 fn refused_temperatures_dopants_and_models() {
     refused(
-        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --temperature-c -300 --dopant B",
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry bulk --temperature-c -300 --dopant B",
         "--temperature-c: \"-300\" is -26.85 K, not allowed; give a temperature > 0 K, e.g. 300, 300K or 27C",
     );
     refused(
-        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --temperature-c 400 --dopant B",
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry bulk --temperature-c 400 --dopant B",
         "--temperature-c: 400 C is outside the range of every model for B in si that could be chosen by default; \
          name one with --model (thurber, masetti, arora, lattice)",
     );
     refused(
-        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --dopant B --model thurber \
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry bulk --dopant B --model thurber \
          --temperature-c 30",
         "--temperature-c: 303.15 is not allowed for the empirical relation, which holds at 23 C; give 295.15 to 297.15 K, \
          correct the reading to 23 C first, or choose a physics model",
     );
     refused(
-        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --dopant Xx",
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry bulk --dopant Xx",
         "--dopant: \"Xx\" is not a known dopant of si; choose one of P, As, Sb, B, Al, Ga, In",
     );
     refused(
-        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --dopant B --volts-uncertainty 0.02",
+        "probe --volts 0.01 --amps 0.001 --spacing 0.1 --geometry bulk --dopant B --volts-uncertainty 0.02",
         "--volts-uncertainty: 0.02000 V reaches the value itself (0.01000 V); give an uncertainty smaller than the value",
     );
     // Outside the empirical relation's range: stated 1e-4 to 1e4 ohm cm for boron (ASTM F723).
     refused(
-        "probe --volts 1e-9 --amps 1 --spacing 0.1 --dopant B",
+        "probe --volts 1e-9 --amps 1 --spacing 0.1 --geometry bulk --dopant B",
         "--volts: the reading's resistivity cannot be converted: resistivity_ohm_cm: 6.283185307179587e-10 ohm cm is \
          outside the boron relation (ASTM F723, 23 C); give 1e-4 to 1e4 ohm cm",
     );

@@ -10,14 +10,16 @@
 //! - [`diameter_correction`] -> [`DiameterCorrection`]: centred probe on a circular thin wafer.
 //! - [`temperature_correction_to_23c`] -> [`TemperatureCorrection`]: derived from the physics
 //!   model's temperature dependence (no published coefficient table was available).
-//! - [`evaluate`]: a whole [`ProbeReading`] to a [`ProbeResult`] naming every factor applied as a
-//!   [`CorrectionFactor`].
+//! - [`ProbeGeometry`]: the sample a reading is taken on, a thin layer or wafer (the default:
+//!   sheet resistance, resistivity only with a thickness) or a bulk sample (semi-infinite).
+//! - [`evaluate`]: a whole [`ProbeReading`] to a [`ProbeResult`] naming the geometry and every
+//!   factor applied as a [`CorrectionFactor`].
 //! - [`ProbeError`]: refusals naming the field, the value and the allowed range.
 
 use std::f64::consts::{LN_2, PI};
 use std::fmt;
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 use crate::constants::ZERO_CELSIUS_K;
 use crate::empirical::EMPIRICAL_TEMPERATURE_K;
@@ -49,10 +51,15 @@ pub enum ProbeError {
         /// Probe spacing, cm.
         spacing_cm: f64,
     },
-    /// A diameter correction was asked for without a thickness (it applies to thin wafers).
-    DiameterNeedsThickness {
+    /// A diameter correction was asked for on a bulk sample (it applies to thin layers).
+    DiameterOnBulk {
         /// Diameter given, cm.
         diameter_cm: f64,
+    },
+    /// A thin layer without a thickness has no resistivity, and `purpose` needs one.
+    ResistivityNeedsThickness {
+        /// What needs the resistivity, e.g. "the temperature correction".
+        purpose: &'static str,
     },
     /// The temperature is not finite or below absolute zero.
     InvalidTemperature {
@@ -90,10 +97,17 @@ impl fmt::Display for ProbeError {
                  diameter correction needs diameter > sqrt(3) x spacing = {:.4} cm",
                 3f64.sqrt() * spacing_cm
             ),
-            ProbeError::DiameterNeedsThickness { diameter_cm } => write!(
+            ProbeError::DiameterOnBulk { diameter_cm } => write!(
                 f,
-                "diameter_cm: {diameter_cm} cm given without thickness_cm; the diameter correction \
-                 (Smits 1958) is for a thin wafer, give its thickness"
+                "diameter_cm: {diameter_cm} cm given for a bulk sample; the diameter correction \
+                 (Smits 1958) is for a thin layer or wafer: choose the thin-layer geometry or \
+                 leave the diameter out"
+            ),
+            ProbeError::ResistivityNeedsThickness { purpose } => write!(
+                f,
+                "thickness_cm: not given; a thin layer has a resistivity only with its thickness, \
+                 and {purpose} needs the resistivity: give the thickness or choose the bulk \
+                 geometry"
             ),
             ProbeError::InvalidTemperature { value_c } => write!(
                 f,
@@ -445,6 +459,60 @@ pub struct CorrectionFactor {
     pub source: String,
 }
 
+/// The sample a four-point-probe reading is taken on.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq, Hash, Serialize, Deserialize)]
+pub enum ProbeGeometry {
+    /// A thin layer or wafer: a diffused, implanted or deposited layer, or a wafer thin against
+    /// the probe spacing. Gives the sheet resistance R_s = (pi/ln 2) V/I times the corrections;
+    /// the resistivity R_s t only when the thickness t is known.
+    #[default]
+    #[serde(rename = "thin-layer")]
+    ThinLayer,
+    /// A bulk sample (ingot, slug, thick piece), semi-infinite against the probe spacing:
+    /// rho = 2 pi s V/I.
+    #[serde(rename = "bulk")]
+    Bulk,
+}
+
+impl ProbeGeometry {
+    /// Every geometry, the default first.
+    pub const ALL: [ProbeGeometry; 2] = [ProbeGeometry::ThinLayer, ProbeGeometry::Bulk];
+
+    /// Stable id: "thin-layer" or "bulk" (the CLI's `--geometry`, the lot files' `geometry`).
+    pub fn id(self) -> &'static str {
+        match self {
+            ProbeGeometry::ThinLayer => "thin-layer",
+            ProbeGeometry::Bulk => "bulk",
+        }
+    }
+
+    /// The geometry named `text`: its id, ignoring case, with a space or underscore for the
+    /// hyphen (`thin layer`, `THIN_LAYER`).
+    pub fn from_id(text: &str) -> Option<ProbeGeometry> {
+        let folded = text.trim().to_ascii_lowercase().replace([' ', '_'], "-");
+        ProbeGeometry::ALL.into_iter().find(|g| g.id() == folded)
+    }
+
+    /// What a result on this geometry is, in a line.
+    pub fn describe(self) -> &'static str {
+        match self {
+            ProbeGeometry::ThinLayer => {
+                "thin layer or wafer: sheet resistance R_s = (pi/ln 2) V/I x corrections, \
+                 resistivity R_s t only with a thickness (Valdes 1954)"
+            }
+            ProbeGeometry::Bulk => {
+                "bulk sample, semi-infinite: resistivity rho = 2 pi s V/I (Valdes 1954)"
+            }
+        }
+    }
+}
+
+impl fmt::Display for ProbeGeometry {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.id())
+    }
+}
+
 /// What the engineer read and knows about the sample.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ProbeReading {
@@ -454,9 +522,12 @@ pub struct ProbeReading {
     pub amps: f64,
     /// Probe spacing, cm.
     pub spacing_cm: f64,
-    /// Layer or wafer thickness, cm; `None` for a semi-infinite body.
+    /// The sample geometry.
+    pub geometry: ProbeGeometry,
+    /// Layer or wafer thickness, cm: the finite-thickness correction, and a thin layer's
+    /// resistivity; `None` when unknown.
     pub thickness_cm: Option<f64>,
-    /// Wafer diameter, cm; `None` for a laterally infinite sample.
+    /// Wafer diameter, cm (thin layers only); `None` for a laterally infinite sample.
     pub diameter_cm: Option<f64>,
     /// Temperature of the reading; `None` when it was taken at 23 C.
     pub temperature: Option<ReadingTemperature>,
@@ -478,12 +549,14 @@ pub struct ReadingTemperature {
 /// The evaluated reading.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ProbeResult {
-    /// Sheet resistance, ohm/sq (`None` for a semi-infinite body, where it is not defined).
+    /// Sheet resistance, ohm/sq: always for a thin layer; for a bulk sample only with a
+    /// thickness (rho / t).
     pub sheet_resistance_ohm_sq: Option<f64>,
-    /// Resistivity, ohm cm (at 23 C when a temperature correction was applied).
-    pub resistivity_ohm_cm: f64,
-    /// "layer" or "semi-infinite".
-    pub geometry: &'static str,
+    /// Resistivity, ohm cm (at 23 C when a temperature correction was applied): always for a
+    /// bulk sample; for a thin layer only with a thickness (R_s t).
+    pub resistivity_ohm_cm: Option<f64>,
+    /// The geometry the reading was evaluated for.
+    pub geometry: ProbeGeometry,
     /// Every factor applied, by name, in the order applied.
     pub corrections: Vec<CorrectionFactor>,
     /// Remarks a reader must see.
@@ -493,59 +566,76 @@ pub struct ProbeResult {
 /// Evaluates a four-point-probe reading.
 ///
 /// # Formula
-/// Without thickness: rho = 2 pi s V/I (semi-infinite). With thickness t:
-/// R_s = (pi/ln 2) (V/I) F(t/s) [C_d / (pi/ln 2)], rho = R_s t, where F is
-/// [`ThicknessCorrection::thin_sheet_factor`] and the bracket is
-/// [`DiameterCorrection::relative_factor`] when a diameter is given (the two corrections are
-/// multiplied, common practice, no source). A temperature correction multiplies both by
-/// [`TemperatureCorrection::factor`].
+/// Thin layer: R_s = (pi/ln 2) (V/I) F(t/s) [C_d / (pi/ln 2)], rho = R_s t, where F is
+/// [`ThicknessCorrection::thin_sheet_factor`] (1 without a thickness: the thin-layer
+/// assumption) and the bracket is [`DiameterCorrection::relative_factor`] when a diameter is
+/// given (the two corrections are multiplied, common practice, no source).
+/// Bulk: rho = 2 pi s (V/I) C(t/s), C = [`ThicknessCorrection::bulk_factor`] (1 without a
+/// thickness: semi-infinite), R_s = rho / t with a thickness.
+/// With a thickness both give the same resistivity (the same image series). A temperature
+/// correction multiplies both results by [`TemperatureCorrection::factor`].
 ///
 /// # Validity
-/// See the individual corrections; the diameter correction assumes a thin wafer, and a note is
-/// added when t/s > 0.5.
+/// See the individual corrections. Without a thickness a thin layer is taken as much thinner
+/// than the spacing and a bulk sample as much thicker; the diameter correction assumes a thin
+/// wafer, and a note is added when t/s > 0.5.
 ///
 /// # References
 /// Valdes (1954), Uhlir (1955), Smits (1958).
 ///
 /// # Errors
-/// Any [`ProbeError`].
+/// Any [`ProbeError`]; [`ProbeError::DiameterOnBulk`] for a diameter on a bulk sample,
+/// [`ProbeError::ResistivityNeedsThickness`] for a temperature correction on a thin layer
+/// without a thickness.
 pub fn evaluate(reading: &ProbeReading) -> Result<ProbeResult, ProbeError> {
     let v_over_i = in_range(
         "volts / amps",
         positive("volts", reading.volts)? / positive("amps", reading.amps)?,
     )?;
     let s = positive("spacing_cm", reading.spacing_cm)?;
+    let thickness = match reading.thickness_cm {
+        Some(t) => Some((t, thickness_correction(t, s)?)),
+        None => None,
+    };
     let mut corrections = Vec::new();
     let mut notes = Vec::new();
-    let (mut sheet, mut rho, geometry) = match reading.thickness_cm {
-        None => {
-            if let Some(d) = reading.diameter_cm {
-                return Err(ProbeError::DiameterNeedsThickness { diameter_cm: d });
-            }
-            (None, 2.0 * PI * s * v_over_i, "semi-infinite")
-        }
-        Some(t) => {
-            let tc = thickness_correction(t, s)?;
-            corrections.push(CorrectionFactor {
-                name: "thickness",
-                value: tc.thin_sheet_factor,
-                source: format!(
-                    "image series, non-conducting faces, t/s = {:.4} (Valdes 1954; Uhlir 1955)",
-                    tc.thickness_over_spacing
+    let thickness_source = |tc: &ThicknessCorrection| {
+        format!(
+            "image series, non-conducting faces, t/s = {:.4} (Valdes 1954; Uhlir 1955)",
+            tc.thickness_over_spacing
+        )
+    };
+    let (mut sheet, mut rho) = match reading.geometry {
+        ProbeGeometry::ThinLayer => {
+            let mut sheet = THIN_SHEET_FACTOR * v_over_i;
+            match &thickness {
+                Some((_, tc)) => {
+                    corrections.push(CorrectionFactor {
+                        name: "thickness",
+                        value: tc.thin_sheet_factor,
+                        source: thickness_source(tc),
+                    });
+                    sheet *= tc.thin_sheet_factor;
+                }
+                None => notes.push(
+                    "thin-layer assumption: the layer is taken as much thinner than the probe \
+                     spacing (no thickness correction); the resistivity needs the thickness"
+                        .to_owned(),
                 ),
-            });
-            let mut sheet = THIN_SHEET_FACTOR * v_over_i * tc.thin_sheet_factor;
+            }
             if let Some(d) = reading.diameter_cm {
                 let dc = diameter_correction(d, s)?;
                 corrections.push(CorrectionFactor {
                     name: "diameter",
                     value: dc.relative_factor,
                     source: format!(
-                        "centred probe on a circular wafer, d/s = {:.4} (Smits 1958)",
+                        "centred probe on a circular thin wafer, d/s = {:.4} (Smits 1958)",
                         dc.diameter_over_spacing
                     ),
                 });
-                if tc.thickness_over_spacing > 0.5 {
+                if let Some((_, tc)) = &thickness
+                    && tc.thickness_over_spacing > 0.5
+                {
                     notes.push(format!(
                         "the diameter correction is for thin wafers; at t/s = {:.3} it is \
                          approximate",
@@ -554,19 +644,41 @@ pub fn evaluate(reading: &ProbeReading) -> Result<ProbeResult, ProbeError> {
                 }
                 sheet *= dc.relative_factor;
             }
-            (Some(sheet), sheet * t, "layer")
+            (Some(sheet), thickness.map(|(t, _)| sheet * t))
+        }
+        ProbeGeometry::Bulk => {
+            if let Some(d) = reading.diameter_cm {
+                return Err(ProbeError::DiameterOnBulk { diameter_cm: d });
+            }
+            let mut rho = 2.0 * PI * s * v_over_i;
+            if let Some((_, tc)) = &thickness {
+                corrections.push(CorrectionFactor {
+                    name: "thickness",
+                    value: tc.bulk_factor,
+                    source: thickness_source(tc),
+                });
+                rho *= tc.bulk_factor;
+            }
+            (thickness.map(|(t, _)| rho / t), Some(rho))
         }
     };
     if let Some(sheet) = sheet {
         in_range("sheet_resistance_ohm_sq", sheet)?;
     }
-    in_range("resistivity_ohm_cm", rho)?;
+    if let Some(rho) = rho {
+        in_range("resistivity_ohm_cm", rho)?;
+    }
     if let Some(rt) = &reading.temperature {
+        let Some(at_reading) = rho else {
+            return Err(ProbeError::ResistivityNeedsThickness {
+                purpose: "the temperature correction",
+            });
+        };
         let options = PhysicsOptions::with_mobility(rt.mobility);
         let tc = temperature_correction_to_23c(
             &rt.material,
             &rt.dopant,
-            rho,
+            at_reading,
             rt.temperature_c,
             &options,
         )?;
@@ -575,13 +687,13 @@ pub fn evaluate(reading: &ProbeReading) -> Result<ProbeResult, ProbeError> {
             value: tc.factor,
             source: format!("to 23 C from {} C: {}", rt.temperature_c, tc.method),
         });
-        rho *= tc.factor;
+        rho = rho.map(|r| r * tc.factor);
         sheet = sheet.map(|r| r * tc.factor);
     }
     Ok(ProbeResult {
         sheet_resistance_ohm_sq: sheet,
         resistivity_ohm_cm: rho,
-        geometry,
+        geometry: reading.geometry,
         corrections,
         notes,
     })
@@ -623,6 +735,7 @@ mod tests {
             volts: 1e-300,
             amps: 1e300,
             spacing_cm: 0.1,
+            geometry: ProbeGeometry::Bulk,
             thickness_cm: None,
             diameter_cm: None,
             temperature: None,
@@ -677,13 +790,29 @@ mod tests {
             volts: 0.01,
             amps: 0.001,
             spacing_cm: 0.1,
+            geometry: ProbeGeometry::Bulk,
             thickness_cm: None,
             diameter_cm: Some(15.0),
             temperature: None,
         };
         assert!(matches!(
             evaluate(&reading),
-            Err(ProbeError::DiameterNeedsThickness { .. })
+            Err(ProbeError::DiameterOnBulk { .. })
+        ));
+        let warm_layer = ProbeReading {
+            geometry: ProbeGeometry::ThinLayer,
+            diameter_cm: None,
+            temperature: Some(ReadingTemperature {
+                temperature_c: 30.0,
+                material: crate::materials::silicon(),
+                dopant: "B".to_owned(),
+                mobility: MobilityModel::Masetti,
+            }),
+            ..reading
+        };
+        assert!(matches!(
+            evaluate(&warm_layer),
+            Err(ProbeError::ResistivityNeedsThickness { .. })
         ));
     }
 }

@@ -25,7 +25,7 @@ use serde::Serialize;
 use crate::compare::{self, ConversionError, ConversionInput, ConversionModel};
 use crate::materials::Material;
 use crate::neutrality::SolveOptions;
-use crate::probe::{self, ProbeError, ProbeReading};
+use crate::probe::{self, ProbeError, ProbeGeometry, ProbeReading};
 
 /// A half-width of uncertainty.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
@@ -101,7 +101,10 @@ pub enum MeasuredInput {
         amps: Measured,
         /// Probe spacing, cm.
         spacing_cm: Measured,
-        /// Thickness, cm (`None`: semi-infinite body).
+        /// The sample geometry.
+        geometry: ProbeGeometry,
+        /// Thickness, cm (`None`: unknown; a thin layer then has no resistivity and is
+        /// refused).
         thickness_cm: Option<Measured>,
         /// Wafer diameter, cm (taken as exact).
         diameter_cm: Option<f64>,
@@ -458,17 +461,27 @@ fn output(
     let input = match &r.input {
         MeasuredInput::Resistivity(_) => ConversionInput::ResistivityOhmCm(p.primary),
         MeasuredInput::Density(_) => ConversionInput::DensityCm3(p.primary),
-        MeasuredInput::Probe { diameter_cm, .. } => {
+        MeasuredInput::Probe {
+            diameter_cm,
+            geometry,
+            ..
+        } => {
             let reading = ProbeReading {
                 volts: p.volts,
                 amps: p.amps,
                 spacing_cm: p.spacing_cm,
+                geometry: *geometry,
                 thickness_cm: p.thickness_cm,
                 diameter_cm: *diameter_cm,
                 temperature: None,
             };
             let result = probe::evaluate(&reading).map_err(UncertaintyError::Probe)?;
-            ConversionInput::ResistivityOhmCm(result.resistivity_ohm_cm)
+            let rho = result.resistivity_ohm_cm.ok_or(UncertaintyError::Probe(
+                ProbeError::ResistivityNeedsThickness {
+                    purpose: "the dopant density",
+                },
+            ))?;
+            ConversionInput::ResistivityOhmCm(rho)
         }
     };
     let c = compare::convert(

@@ -6,7 +6,7 @@ use bandgauge_core::empirical::{self, EmpiricalError, EmpiricalRelation};
 use bandgauge_core::materials;
 use bandgauge_core::mobility::{self, MobilityModel};
 use bandgauge_core::neutrality::SolveOptions;
-use bandgauge_core::probe::{self, THIN_SHEET_FACTOR};
+use bandgauge_core::probe::{self, ProbeGeometry, THIN_SHEET_FACTOR};
 use bandgauge_core::resistivity::{self, PhysicsOptions, ROUND_TRIP_TOLERANCE, ResistivityError};
 use bandgauge_core::uncertainty::{self, Measured, MeasuredInput, UncertaintyRequest};
 use proptest::prelude::*;
@@ -235,6 +235,7 @@ fn probe_uncertainty_runs_through_the_whole_chain() {
             volts: Measured::relative(0.0125, 0.01),
             amps: Measured::relative(0.001, 0.002),
             spacing_cm: Measured::exact(0.1),
+            geometry: ProbeGeometry::ThinLayer,
             thickness_cm: Some(Measured::relative(0.002, 0.005)),
             diameter_cm: None,
         },

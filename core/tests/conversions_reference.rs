@@ -11,7 +11,7 @@ use bandgauge_core::mobility::{
     SOTOODEH_GAAS_ELECTRONS, SOTOODEH_GAAS_HOLES,
 };
 use bandgauge_core::neutrality::SolveOptions;
-use bandgauge_core::probe::{self, ProbeReading, THIN_SHEET_FACTOR};
+use bandgauge_core::probe::{self, ProbeGeometry, ProbeReading, THIN_SHEET_FACTOR};
 use bandgauge_core::resistivity::{self, PhysicsOptions};
 
 /// Independent evaluations of a published formula (mpmath, 30 digits, printed to 8 figures).
@@ -731,8 +731,9 @@ fn diameter_correction_values() {
         let d = probe::diameter_correction(r * 0.1, 0.1).unwrap();
         check(&format!("C({r})"), d.sheet_factor, c, 3e-6);
     }
-    // Source: Smits 1958, table for a circular slice, d/s = 3, 4, 5, 7.5, 10, 15, 20, 40
-    // (from memory).
+    // Source: Smits 1958, the table of the correction for a circular slice, d/s = 3, 4, 5, 7.5,
+    // 10, 15, 20, 40 (from memory: recalled, not read from the paper; the table's number is not
+    // given here because it was not checked).
     for (r, c) in [
         (3.0, 2.2662),
         (4.0, 2.9289),
@@ -759,6 +760,7 @@ fn probe_reading_names_each_correction() {
         volts: 0.0125,
         amps: 0.001,
         spacing_cm: 0.1,
+        geometry: ProbeGeometry::ThinLayer,
         thickness_cm: Some(0.0525),
         diameter_cm: Some(15.0),
         temperature: None,
@@ -774,7 +776,118 @@ fn probe_reading_names_each_correction() {
         .relative_factor;
     let sheet = r.sheet_resistance_ohm_sq.unwrap();
     check("sheet", sheet, THIN_SHEET_FACTOR * 12.5 * t * d, 1e-14);
-    check("rho", r.resistivity_ohm_cm, sheet * 0.0525, 1e-14);
+    check("rho", r.resistivity_ohm_cm.unwrap(), sheet * 0.0525, 1e-14);
+    assert_eq!(r.geometry, ProbeGeometry::ThinLayer);
+}
+
+#[test]
+fn thin_layer_and_bulk_geometries() {
+    let reading = ProbeReading {
+        volts: 0.01,
+        amps: 0.001,
+        spacing_cm: 0.1,
+        geometry: ProbeGeometry::default(),
+        thickness_cm: None,
+        diameter_cm: None,
+        temperature: None,
+    };
+    // Source: Valdes, Proc. IRE 42, 420 (1954): a thin sheet gives R_s = (pi/ln 2) V/I,
+    // pi/ln 2 = 4.5324 (4 decimals as commonly quoted), so 10 ohm x 4.5324 = 45.32 ohm/sq.
+    let thin = probe::evaluate(&reading).unwrap();
+    assert_eq!(
+        thin.geometry,
+        ProbeGeometry::ThinLayer,
+        "thin layer is the default"
+    );
+    check(
+        "thin R_s",
+        thin.sheet_resistance_ohm_sq.unwrap(),
+        45.324,
+        1e-5,
+    );
+    assert_eq!(
+        thin.resistivity_ohm_cm, None,
+        "no thickness, no resistivity"
+    );
+    assert!(thin.corrections.is_empty());
+    assert!(
+        thin.notes
+            .iter()
+            .any(|n| n.contains("thin-layer assumption"))
+    );
+    // Source: Smits, Bell Syst. Tech. J. 37, 711 (1958), closed form for a centred probe on a
+    // circular slice, evaluated at d/s = 10: C = 4.17119; with a diameter and no thickness the
+    // sheet resistance is C V/I on the thin-layer assumption.
+    let small = probe::evaluate(&ProbeReading {
+        diameter_cm: Some(1.0),
+        ..reading.clone()
+    })
+    .unwrap();
+    check(
+        "Smits R_s",
+        small.sheet_resistance_ohm_sq.unwrap(),
+        41.7119,
+        3e-6,
+    );
+    assert_eq!(small.resistivity_ohm_cm, None);
+    let names: Vec<&str> = small.corrections.iter().map(|c| c.name).collect();
+    assert_eq!(names, ["diameter"]);
+    // Source: Valdes 1954: a semi-infinite body gives rho = 2 pi s V/I = 2 pi 0.1 cm 10 ohm
+    // = 6.2832 ohm cm.
+    let bulk = probe::evaluate(&ProbeReading {
+        geometry: ProbeGeometry::Bulk,
+        ..reading.clone()
+    })
+    .unwrap();
+    check(
+        "bulk rho",
+        bulk.resistivity_ohm_cm.unwrap(),
+        2.0 * std::f64::consts::PI * 0.1 * 10.0,
+        1e-15,
+    );
+    assert_eq!(format!("{:.3}", bulk.resistivity_ohm_cm.unwrap()), "6.283");
+    assert_eq!(bulk.sheet_resistance_ohm_sq, None);
+    // With a thickness the two geometries are the same image series (Valdes 1954; Uhlir 1955):
+    // the same resistivity, F(t/s) and C(t/s) related by F = 2 ln 2 C / (t/s).
+    for t in [0.005, 0.05, 0.1, 0.3] {
+        let layer = probe::evaluate(&ProbeReading {
+            thickness_cm: Some(t),
+            ..reading.clone()
+        })
+        .unwrap();
+        let body = probe::evaluate(&ProbeReading {
+            geometry: ProbeGeometry::Bulk,
+            thickness_cm: Some(t),
+            ..reading.clone()
+        })
+        .unwrap();
+        check(
+            &format!("rho at t = {t}"),
+            body.resistivity_ohm_cm.unwrap(),
+            layer.resistivity_ohm_cm.unwrap(),
+            1e-13,
+        );
+        check(
+            &format!("R_s at t = {t}"),
+            body.sheet_resistance_ohm_sq.unwrap(),
+            layer.sheet_resistance_ohm_sq.unwrap(),
+            1e-13,
+        );
+    }
+    // A diameter on a bulk sample is refused with a message naming the field.
+    let refused = probe::evaluate(&ProbeReading {
+        geometry: ProbeGeometry::Bulk,
+        diameter_cm: Some(15.0),
+        ..reading
+    })
+    .unwrap_err();
+    assert!(refused.to_string().starts_with("diameter_cm:"), "{refused}");
+    assert_eq!(
+        ProbeGeometry::from_id("Thin Layer"),
+        Some(ProbeGeometry::ThinLayer)
+    );
+    assert_eq!(ProbeGeometry::from_id("bulk"), Some(ProbeGeometry::Bulk));
+    assert_eq!(ProbeGeometry::from_id("semi"), None);
 }
 
 #[test]

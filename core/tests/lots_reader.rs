@@ -10,6 +10,7 @@ use bandgauge_core::lots::{
     Column, LotBook, LotFileError, LotReader, MAX_LINE_BYTES, Measurement, ReadOptions, RowCounts,
     RowOutcome, RowRejection, read_str,
 };
+use bandgauge_core::probe::ProbeGeometry;
 
 /// Unit conversions are powers of ten applied in f64: a few ulps.
 const UNIT_RELATIVE: f64 = 1e-14;
@@ -302,7 +303,7 @@ fn settings_before_the_header_fill_every_row() {
     else {
         panic!("a probe reading: {:?}", row.measurement);
     };
-    assert_eq!((thickness_cm, spacing_cm), (0.0675, 0.1));
+    assert_eq!((thickness_cm, spacing_cm), (Some(0.0675), 0.1));
     // A typo in a setting name is kept as a comment, with a note.
     let outcome = read_with("# dopnat: B\nlot,wafer,resistivity\nA,1,10\n", &boron());
     counts(&outcome);
@@ -330,6 +331,69 @@ fn four_point_probe_on_a_thin_layer_follows_the_thin_sheet_formula() {
         "probe rho",
     );
     assert_eq!(outcome.rows[0].relation, EmpiricalRelation::Phosphorus);
+    assert!(matches!(
+        outcome.rows[0].measurement,
+        Measurement::Probe {
+            geometry: ProbeGeometry::ThinLayer,
+            ..
+        }
+    ));
+}
+
+#[test]
+fn four_point_probe_on_a_bulk_sample_needs_no_thickness() {
+    // Source: Valdes, Proc. IRE 42, 420 (1954): rho = 2 pi s V/I on a semi-infinite body;
+    // 2 pi x 0.1 cm x 15.9 mV / 1 mA = 9.990 ohm cm.
+    let text =
+        "# geometry: bulk\nlot,wafer,dopant,volts [mV],amps [mA],spacing [mm]\nA,1,P,15.9,1,1\n";
+    let outcome = read(text);
+    counts(&outcome);
+    let expected = 2.0 * std::f64::consts::PI * 0.1 * 15.9;
+    close(
+        outcome.rows[0].resistivity_ohm_cm,
+        expected,
+        1e-14,
+        "bulk rho",
+    );
+    assert_eq!(
+        outcome.rows[0].measurement,
+        Measurement::Probe {
+            volts: 15.9e-3,
+            amps: 1e-3,
+            spacing_cm: 0.1,
+            geometry: ProbeGeometry::Bulk,
+            thickness_cm: None,
+            sheet_resistance_ohm_sq: None,
+        }
+    );
+    // A geometry column sets it per row; a thin-layer row without thickness is rejected by
+    // name, and a geometry the reader does not know is refused with the allowed ones.
+    let text = "lot,wafer,dopant,volts,amps,spacing,geometry\n\
+                A,1,P,0.0159,0.001,1,bulk\n\
+                A,2,P,0.0159,0.001,1,thin-layer\n\
+                A,3,P,0.0159,0.001,1,slab\n";
+    let outcome = read(text);
+    let c = counts(&outcome);
+    assert_eq!((c.converted, c.rejected), (1, 2));
+    assert_eq!(outcome.rejected[0].column, Some(Column::Thickness));
+    assert_eq!(outcome.rejected[1].column, Some(Column::Geometry));
+    assert!(
+        outcome.rejected[1].reason.contains("thin-layer")
+            && outcome.rejected[1].reason.contains("bulk"),
+        "{}",
+        outcome.rejected[1].reason
+    );
+    // Without a thickness, a geometry column or a bulk setting the header is refused with the
+    // three ways out.
+    let mut book = LotBook::new();
+    let error = read_str(
+        "lot,wafer,dopant,volts,amps,spacing\nA,1,P,0.0159,0.001,1\n",
+        &ReadOptions::default(),
+        &mut book,
+        &mut |_| {},
+    )
+    .unwrap_err();
+    assert!(error.to_string().contains("# geometry: bulk"), "{error}");
 }
 
 #[test]

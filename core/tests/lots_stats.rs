@@ -3,7 +3,7 @@
 
 use bandgauge_core::lots::stats::{
     EXACT_MEDIAN_LIMIT, MEDIAN_BIN_RELATIVE_WIDTH, MedianSketch, Moments, StatsError, Summary,
-    chi_squared_survival, kruskal_wallis, ln_gamma, regularized_gamma_q,
+    chi_squared_survival, holm_adjusted, kruskal_wallis, ln_gamma, regularized_gamma_q,
     regularized_incomplete_beta, student_t_cdf, student_t_pdf, student_t_quantile,
     student_t_two_sided_p, welch_t_test,
 };
@@ -613,5 +613,115 @@ fn many_lots_are_compared_with_the_first_and_few_lots_pairwise() {
         single.notes.iter().any(|n| n.contains("one wafer")),
         "{:?}",
         single.notes
+    );
+}
+
+/// statsmodels prints its adjusted p-values to 16-17 digits; the Welch p-values behind them
+/// agree with SciPy to 1e-10 (above), so the comparison allows the same.
+const STATSMODELS_RELATIVE: f64 = 1e-10;
+
+#[test]
+fn holm_adjustment_matches_statsmodels() {
+    // Source: statsmodels 0.15.0, multipletests(p, method="holm") (core/tests/data/
+    // gen_holm_reference.py): [0.009, 0.04, 0.03, 0.005, 0.04, 0.5] gives
+    // [0.045, 0.12, 0.12, 0.03, 0.12, 0.5] (ties share the step-down maximum; the order given
+    // is kept). Formula: Holm, Scand. J. Statist. 6, 65-70 (1979).
+    let adjusted = holm_adjusted(&[0.009, 0.04, 0.03, 0.005, 0.04, 0.5]);
+    for (got, expected) in adjusted.iter().zip([0.045, 0.12, 0.12, 0.03, 0.12, 0.5]) {
+        close(*got, expected, CLOSED_FORM_RELATIVE, "holm");
+    }
+    assert_eq!(adjusted.len(), 6);
+    // The cap at 1 and the empty family.
+    assert_eq!(holm_adjusted(&[0.6, 0.7]), vec![1.0, 1.0]);
+    assert!(holm_adjusted(&[]).is_empty());
+    // A NaN stays NaN and does not lower the others' adjustment.
+    let with_nan = holm_adjusted(&[0.01, f64::NAN]);
+    close(with_nan[0], 0.02, CLOSED_FORM_RELATIVE, "holm with NaN");
+    assert!(with_nan[1].is_nan());
+
+    // Source: statsmodels 0.15.0 (same script): Welch's t-test (ttest_ind, usevar="unequal")
+    // on ln density for every pair of four invented lots, then multipletests(method="holm").
+    let lot = |values: &[f64]| values.iter().map(|v| v.ln()).collect::<Vec<f64>>();
+    let lots = [
+        lot(&[1.02e15, 1.05e15, 0.99e15, 1.01e15, 1.03e15]),
+        lot(&[1.04e15, 1.00e15, 1.06e15, 1.02e15]),
+        lot(&[1.10e15, 1.12e15, 1.08e15, 1.13e15, 1.09e15, 1.11e15]),
+        lot(&[1.01e15, 1.09e15, 0.97e15, 1.06e15, 1.03e15]),
+    ];
+    let mut raw = Vec::new();
+    for i in 0..4 {
+        for j in i + 1..4 {
+            raw.push(welch_t_test(&lots[i], &lots[j]).unwrap().p_value);
+        }
+    }
+    // (raw, adjusted) for a-b, a-c, a-d, b-c, b-d, c-d.
+    let expected = [
+        (0.563_813_141_999_308_4, 1.0),
+        (0.000_210_955_659_727_169_06, 0.001_265_733_958_363_014_4),
+        (0.637_035_100_210_106, 1.0),
+        (0.004_830_130_130_625_148, 0.024_150_650_653_125_74),
+        (0.955_296_218_326_263_7, 1.0),
+        (0.022_739_069_985_842_287, 0.090_956_279_943_369_15),
+    ];
+    let adjusted = holm_adjusted(&raw);
+    for ((p, q), (p_expected, q_expected)) in raw.iter().zip(&adjusted).zip(expected) {
+        close(*p, p_expected, STATSMODELS_RELATIVE, "welch p");
+        close(*q, q_expected, STATSMODELS_RELATIVE, "holm p");
+    }
+    // c-d is below 0.05 raw but not after the adjustment: the case the correction is for.
+    assert!(raw[5] < 0.05 && adjusted[5] >= 0.05);
+}
+
+#[test]
+fn lot_pairs_are_called_significant_on_the_holm_adjusted_p() {
+    // Four lots, three wafers each; lot C is doped about 12 % heavier (lower resistivity).
+    let mut text = String::from("lot,wafer,resistivity,dopant\n");
+    let wafers: [(&str, [f64; 3]); 4] = [
+        ("A", [10.0, 10.3, 9.8]),
+        ("B", [10.1, 9.9, 10.4]),
+        ("C", [8.9, 9.0, 8.85]),
+        ("D", [10.2, 9.7, 10.0]),
+    ];
+    for (lot, means) in wafers {
+        for (w, mean) in means.iter().enumerate() {
+            for offset in [-0.05, 0.0, 0.05] {
+                text.push_str(&format!("{lot},{w},{},B\n", mean + offset));
+            }
+        }
+    }
+    let report = book_of(&text).report(None);
+    assert_eq!(report.differences.len(), 6, "every pair of four lots");
+    // Second implementation of the step-down rule (Holm 1979), on the report's raw p-values.
+    let raw: Vec<f64> = report.differences.iter().map(|d| d.test.p_value).collect();
+    let mut order: Vec<usize> = (0..raw.len()).collect();
+    order.sort_by(|a, b| raw[*a].total_cmp(&raw[*b]));
+    let mut floor = 0.0_f64;
+    for (k, &i) in order.iter().enumerate() {
+        floor = floor.max(((6 - k) as f64 * raw[i]).min(1.0));
+        let d = &report.differences[i];
+        close(d.p_adjusted, floor, CLOSED_FORM_RELATIVE, "adjusted p");
+        assert!(d.p_adjusted >= d.test.p_value);
+        assert_eq!(
+            d.significant,
+            d.p_adjusted < 0.05,
+            "{} vs {}",
+            d.lot_a,
+            d.lot_b
+        );
+    }
+    let with_c = |d: &&bandgauge_core::lots::LotDifference| d.lot_a == "C" || d.lot_b == "C";
+    assert!(
+        report
+            .differences
+            .iter()
+            .filter(with_c)
+            .all(|d| d.significant)
+    );
+    assert!(
+        report
+            .differences
+            .iter()
+            .filter(|d| !with_c(d))
+            .all(|d| !d.significant)
     );
 }

@@ -481,9 +481,16 @@ catalogue! {
          at most)\n";
     diameter_negative: ["probe", "--volts", "12.5mV", "--amps", "1mA", "--spacing", "1mm", "--diameter", "-1"] => REFUSED,
         "error: --diameter: \"-1\" is not allowed; give a length > 0 cm\n";
-    diameter_without_thickness: ["probe", "--volts", "12.5mV", "--amps", "1mA", "--spacing", "1mm", "--diameter", "150mm"] => REFUSED,
-        "error: --diameter: 15 cm given without thickness_cm; the diameter correction (Smits 1958) \
-         is for a thin wafer, give its thickness\n";
+    diameter_on_a_bulk_sample: ["probe", "--volts", "12.5mV", "--amps", "1mA", "--spacing", "1mm", "--geometry", "bulk", "--diameter", "150mm"] => REFUSED,
+        "error: --diameter: the diameter correction (Smits 1958) is for a thin layer or wafer, not \
+         a bulk sample; leave --diameter out or use --geometry thin-layer\n";
+    geometry_unknown: ["probe", "--volts", "12.5mV", "--amps", "1mA", "--spacing", "1mm", "--geometry", "semi-infinite"] => REFUSED,
+        "error: --geometry: \"semi-infinite\" is not a sample geometry; allowed: thin-layer (sheet \
+         resistance of a layer or thin wafer; resistivity with --thickness) or bulk (semi-infinite \
+         sample: resistivity)\n";
+    density_of_a_thin_layer_without_its_thickness: ["probe", "--volts", "12.5mV", "--amps", "1mA", "--spacing", "1mm", "--dopant", "B"] => REFUSED,
+        "error: --dopant: a dopant density needs the resistivity, which a thin layer gives only with \
+         its thickness: add --thickness, or --geometry bulk for a bulk sample\n";
     diameter_smaller_than_the_probe: ["probe", "--volts", "12.5mV", "--amps", "1mA", "--spacing", "1mm", "--thickness", "525um", "--diameter", "1mm"] => REFUSED,
         "error: --diameter: 0.1 cm is too small for probe spacing 0.1 cm; the diameter correction \
          needs diameter > sqrt(3) x spacing = 0.1732 cm\n";
@@ -514,7 +521,7 @@ catalogue! {
     probe_model_unknown: ["probe", "--volts", "12.5mV", "--amps", "1mA", "--spacing", "1mm", "--dopant", "B", "--model", "irvin"] => REFUSED,
         "error: --model: 'irvin' is not known; use one of thurber, masetti, arora, caughey-thomas, \
          lattice\n";
-    probe_uncertainty_reaching_the_value: ["probe", "--volts", "10mV", "--amps", "1mA", "--spacing", "1mm", "--dopant", "B", "--amps-uncertainty", "2mA"] => REFUSED,
+    probe_uncertainty_reaching_the_value: ["probe", "--volts", "10mV", "--amps", "1mA", "--spacing", "1mm", "--geometry", "bulk", "--dopant", "B", "--amps-uncertainty", "2mA"] => REFUSED,
         "error: --amps-uncertainty: 0.002000 A reaches the value itself (0.001000 A); give an \
          uncertainty smaller than the value\n";
     probe_material_unknown: ["probe", "--volts", "10mV", "--amps", "1mA", "--spacing", "1mm", "--dopant", "B", "--material", "sic"] => REFUSED,
@@ -543,7 +550,7 @@ catalogue! {
     lots_file_without_a_header: ["lots", "a.csv"] files [("a.csv", "10.1\n9.9\n")] => REFUSED,
         "error: a.csv: line 1: \"10.1\" is not a header: it names none of the columns lot, wafer, \
          site, x, y, dopant, type, resistivity, sheet_resistance, thickness, volts, amps, spacing, \
-         uncertainty\n";
+         uncertainty, geometry\n";
     lots_file_without_a_dopant: ["lots", "a.csv"] files [("a.csv", "lot,wafer,resistivity\nA1,1,10\n")] => REFUSED,
         "error: a.csv: line 1: header: no dopant: add a dopant or type column, a line '# dopant: B' \
          before the header, or name the dopant for all files (--dopant)\n";

@@ -68,7 +68,7 @@ fn only_rejection(text: &[u8], default_dopant: Option<&str>) -> String {
 
 /// Every column name, as the header messages list them.
 const COLUMNS: &str = "lot, wafer, site, x, y, dopant, type, resistivity, sheet_resistance, \
-                       thickness, volts, amps, spacing, uncertainty";
+                       thickness, volts, amps, spacing, uncertainty, geometry";
 
 /// One `#[test]` per file the reader refuses as a whole, with the exact message.
 macro_rules! refused_files {
@@ -129,8 +129,12 @@ refused_files! {
         "line 1: header: sheet_resistance needs a thickness: add a thickness column or a line \
          '# thickness: 525 um' before the header";
     probe_without_thickness: "lot,wafer,volts,amps,spacing,dopant\n" =>
-        "line 1: header: volts and amps need a thickness: add a thickness column or a line \
-         '# thickness: 525 um' before the header";
+        "line 1: header: volts and amps on a thin layer need a thickness: add a thickness column \
+         or a line '# thickness: 525 um' before the header, or '# geometry: bulk' for a bulk \
+         sample";
+    probe_geometry_unknown: "# geometry: slab\nlot,wafer,volts,amps,spacing,dopant\n" =>
+        "line 1: setting: \"slab\" is not a probe geometry; give thin-layer (sheet resistance of \
+         a layer or wafer; resistivity with its thickness) or bulk (semi-infinite sample)";
     probe_without_spacing: "lot,wafer,volts,amps,thickness,dopant\n" =>
         "line 1: header: volts and amps need the probe spacing: add a spacing column or a line \
          '# spacing: 1 mm' before the header";
@@ -142,7 +146,7 @@ refused_files! {
          not span lines)";
     setting_for_a_column_that_cannot_be_set: "# resistivity: 10\nlot,wafer,dopant,resistivity\n" =>
         "line 1: setting: resistivity cannot be set for a whole file; it belongs in a column \
-         (settings: lot, wafer, dopant, type, thickness, spacing, uncertainty)";
+         (settings: lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry)";
     setting_without_a_value: "# lot:\nwafer,dopant,resistivity\n" =>
         "line 1: setting: lot: no value after the name";
     setting_with_an_unknown_dopant: "# dopant: Ga\nlot,wafer,resistivity\n" =>
@@ -305,7 +309,7 @@ fn unknown_setting_is_read_as_a_comment_with_a_note() {
         read.notes,
         [
             "line 1: 'operator' is not a setting bandgauge knows; the line is read as a comment \
-          (settings: lot, wafer, dopant, type, thickness, spacing, uncertainty)"
+          (settings: lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry)"
         ]
     );
 }

@@ -134,28 +134,28 @@ refused_records! {
         );
     version_zero: edited(|m| { m.insert("format_version".into(), json!(0)); }) =>
         "format_version: 0 is not a record version bandgauge ever wrote; this bandgauge reads \
-         record version 1";
+         record version 2";
     version_not_whole: edited(|m| { m.insert("format_version".into(), json!(1.5)); }) =>
         "format_version: 1.5 is not a record version bandgauge ever wrote; this bandgauge reads \
-         record version 1";
+         record version 2";
     version_negative: edited(|m| { m.insert("format_version".into(), json!(-1)); }) =>
         "format_version: -1 is not a record version bandgauge ever wrote; this bandgauge reads \
-         record version 1";
+         record version 2";
     version_as_text: edited(|m| { m.insert("format_version".into(), json!("1")); }) =>
         "format_version: \"1\" is not a record version bandgauge ever wrote; this bandgauge reads \
-         record version 1";
+         record version 2";
     digest_missing: edited(|m| { m.remove("digest"); }) =>
         "digest: missing; every sign-off record has it";
     digest_not_text: edited(|m| { m.insert("digest".into(), json!(12345)); }) =>
         "digest: a number is not allowed; give the 64 hex digits of a SHA-256";
     extra_member: resealed(|m| { m.insert("signed_by".into(), json!("QA")); }) =>
-        "signed_by: is not a member of a version 1 record; its members are format, \
+        "signed_by: is not a member of a version 2 record; its members are format, \
          format_version, app_version, build_commit, created_utc, view, inputs, results, digest";
     member_missing: resealed(|m| { m.remove("created_utc"); }) =>
         "created_utc: missing; every sign-off record has it";
     view_unknown: resealed(|m| { m.insert("view".into(), json!("wafer_map")); }) =>
         "view: unknown variant `wafer_map`, expected one of `point_calculation`, \
-         `temperature_sweep`, `conversion`, `lot_comparison`; a version 1 record cannot have it";
+         `temperature_sweep`, `conversion`, `lot_comparison`; a version 2 record cannot have it";
     inputs_without_the_workbench: resealed(|m| {
         m.insert("inputs".into(), json!({ "lots": null }));
     }) =>
@@ -173,7 +173,7 @@ refused_records! {
     }) =>
         "inputs.lots: only a lot comparison carries lot files; give null";
     app_version_not_text: resealed(|m| { m.insert("app_version".into(), json!(0.1)); }) =>
-        "app_version: invalid type: floating point `0.1`, expected a string; a version 1 record \
+        "app_version: invalid type: floating point `0.1`, expected a string; a version 2 record \
          cannot have it";
 }
 

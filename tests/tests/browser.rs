@@ -3,13 +3,14 @@
 //! explained in place while the last valid result stays, the URL reproduces the state, and
 //! every chart canvas is drawn. Screenshots land in tests/artifacts/ for a person to inspect.
 
+use bandgauge_app::resistivity::PHONON_LIMIT_REMARK;
 use bandgauge_core::compare::{self, ConversionInput};
 use bandgauge_core::empirical::{self, EMPIRICAL_TEMPERATURE_K, EmpiricalInput};
 use bandgauge_core::intrinsic::IntrinsicModel;
 use bandgauge_core::materials::{self, DopantDensity};
 use bandgauge_core::mobility::{self, MobilityModel};
 use bandgauge_core::neutrality::{self, SolveOptions};
-use bandgauge_core::probe::{self, ProbeReading, ReadingTemperature};
+use bandgauge_core::probe::{self, ProbeGeometry, ProbeReading, ReadingTemperature};
 use bandgauge_core::resistivity::{self, PhysicsOptions};
 use bandgauge_core::sweep;
 use bandgauge_tests::browser::{by_testid, retype, screenshot, text_until, with_browser};
@@ -517,6 +518,18 @@ async fn resistivity_view_compares_models_and_runs_the_probe() {
         let core =
             empirical::convert("si", "B", EmpiricalInput::ResistivityOhmCm(10.0)).expect("core");
         let shown = number_near(&client, "model-thurber", core.density_cm3, DISPLAY_REL_TOL).await;
+        // The lattice-only mobility is the phonon limit: one short grey line, not the core's
+        // refusal in error red (10 ohm cm is below what the phonon-limited model reaches).
+        let remark = text_until(&client, "model-lattice-remark", |t| {
+            t.starts_with("phonon limit")
+        })
+        .await;
+        assert_eq!(remark, PHONON_LIMIT_REMARK);
+        let class = attr_of(&client, "model-lattice-remark", "class")
+            .await
+            .unwrap_or_default();
+        assert!(class.contains("note") && !class.contains("bad"), "{class}");
+        assert_eq!(text_of(&client, "model-lattice").await, "—");
         retype(&client, "convert-value", "10 ohm").await;
         let msg = text_until(&client, "convert-value-error", |t| t.contains("unit")).await;
         assert!(msg.starts_with("resistivity:"), "{msg}");
@@ -542,6 +555,7 @@ async fn resistivity_view_compares_models_and_runs_the_probe() {
             volts: 1e-3,
             amps: 1e-3,
             spacing_cm: 0.1,
+            geometry: ProbeGeometry::ThinLayer,
             thickness_cm: Some(1e-4),
             diameter_cm: Some(4.0),
             temperature: None,
@@ -560,10 +574,44 @@ async fn resistivity_view_compares_models_and_runs_the_probe() {
         number_near(
             &client,
             "probe-resistivity",
-            core.resistivity_ohm_cm,
+            core.resistivity_ohm_cm.expect("a thickness gives rho"),
             DISPLAY_REL_TOL,
         )
         .await;
+        assert_eq!(
+            text_of(&client, "probe-geometry").await,
+            "thin layer or wafer"
+        );
+
+        // A thin layer of unknown thickness: the sheet resistance only, Smits-corrected.
+        retype(&client, "probe-thickness", "").await;
+        text_until(&client, "probe-resistivity", |t| {
+            t.contains("give its thickness")
+        })
+        .await;
+        // Source: Smits, Bell Syst. Tech. J. 37, 711 (1958), closed form at d/s = 40:
+        // C = 4.50797, so R_s = C V/I = 4.508 ohm/sq at V/I = 1 ohm.
+        let sheet = number_until(&client, "probe-sheet", |_| true).await;
+        assert!((sheet / 4.50797 - 1.0).abs() < 1e-3, "{sheet}");
+        let hint = text_of(&client, "probe-geometry-hint").await;
+        assert!(hint.contains("only with a thickness"), "{hint}");
+
+        // A bulk sample: rho = 2 pi s V/I (Valdes, Proc. IRE 42, 420 (1954)) = 0.6283 ohm cm at
+        // s = 1 mm and V/I = 1 ohm; no diameter correction on a bulk sample.
+        retype(&client, "probe-diameter", "").await;
+        choose(&client, "probe-geometry-choice", "bulk").await;
+        let rho = number_until(&client, "probe-resistivity", |v| {
+            (v / 0.628_318 - 1.0).abs() < 1e-3
+        })
+        .await;
+        assert!((rho / (2.0 * std::f64::consts::PI * 0.1) - 1.0).abs() <= DISPLAY_REL_TOL);
+        assert_eq!(
+            text_of(&client, "probe-geometry").await,
+            "bulk sample (semi-infinite)"
+        );
+        let hint = text_of(&client, "probe-geometry-hint").await;
+        assert!(hint.starts_with("ρ = 2π·s·V/I"), "{hint}");
+        choose(&client, "probe-geometry-choice", "thin-layer").await;
 
         // A reading at 30 C, corrected to 23 C with the dopant's first mobility model.
         retype(&client, "probe-thickness", "525 um").await;
@@ -584,7 +632,7 @@ async fn resistivity_view_compares_models_and_runs_the_probe() {
         number_near(
             &client,
             "probe-resistivity",
-            core.resistivity_ohm_cm,
+            core.resistivity_ohm_cm.expect("a thickness gives rho"),
             DISPLAY_REL_TOL,
         )
         .await;

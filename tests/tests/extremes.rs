@@ -74,7 +74,7 @@ use bandgauge_core::lots::{self, LotBook, ReadOptions, SpecQuantity, SpecWindow,
 use bandgauge_core::materials::{self, Dopant, DopantDensity, DopantKind, Material};
 use bandgauge_core::mobility::{self, Carrier, ConductivityType, MobilityModel};
 use bandgauge_core::neutrality::{self, SolveOptions};
-use bandgauge_core::probe::{self, ProbeReading, ReadingTemperature};
+use bandgauge_core::probe::{self, ProbeGeometry, ProbeReading, ReadingTemperature};
 use bandgauge_core::resistivity::{self, PhysicsOptions};
 use bandgauge_core::sweep;
 use bandgauge_core::uncertainty::{self, Measured, MeasuredInput, UncertaintyRequest};
@@ -155,6 +155,11 @@ fn any_real() -> impl Strategy<Value = f64> {
 /// and probe sizes (0.01 to 30 cm).
 fn length_cm() -> impl Strategy<Value = f64> {
     prop_oneof![1 => special(), 4 => log_uniform(-9.0, 5.0), 8 => log_uniform(-2.0, 1.5)]
+}
+
+/// Either probe geometry.
+fn geometry() -> impl Strategy<Value = ProbeGeometry> {
+    prop::sample::select(ProbeGeometry::ALL.to_vec())
 }
 
 /// Electrical readings (V, A): 1e-15 to 1e6, plus the specials, plus bench values (1e-6 to
@@ -766,6 +771,7 @@ proptest! {
         volts in reading(),
         amps in reading(),
         spacing in length_cm(),
+        geometry in geometry(),
         thickness in prop::option::of(length_cm()),
         diameter in prop::option::of(length_cm()),
         rho in resistivity_ohm_cm(),
@@ -780,6 +786,7 @@ proptest! {
             volts,
             amps,
             spacing_cm: spacing,
+            geometry,
             thickness_cm: thickness,
             diameter_cm: diameter,
             temperature: corrected.then(|| ReadingTemperature {
@@ -801,6 +808,7 @@ proptest! {
         volts in measured(reading()),
         amps in measured(reading()),
         spacing in measured(length_cm()),
+        geometry in geometry(),
         thickness in prop::option::of(measured(length_cm())),
         diameter in prop::option::of(length_cm()),
         t in measured(temperature_k()),
@@ -813,6 +821,7 @@ proptest! {
                 volts,
                 amps,
                 spacing_cm: spacing,
+                geometry,
                 thickness_cm: thickness,
                 diameter_cm: diameter,
             },

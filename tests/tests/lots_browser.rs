@@ -489,6 +489,78 @@ async fn imported_file_lists_bad_rows_by_line_and_summarises_the_good_ones() {
     .await;
 }
 
+#[tokio::test(flavor = "multi_thread")]
+async fn a_notes_file_among_lot_files_is_skipped_and_pairs_show_holm_adjusted_p() {
+    with_browser(LAPTOP.0, LAPTOP.1, |client, base| async move {
+        // The demo folder as a user picks it: four lot files and the folder's README.md.
+        let texts = demo_texts();
+        let files: Vec<TempFile> = texts
+            .iter()
+            .map(|(name, text)| TempFile::new("skip", name, text))
+            .collect();
+        let readme_text =
+            std::fs::read_to_string(demo_dir().join("README.md")).expect("demo README");
+        let readme = TempFile::new("skip", "README.md", &readme_text);
+        let expected = expected_for(&texts, None);
+        open_lots(&client, &base).await;
+        let paths: Vec<String> = files
+            .iter()
+            .chain(std::iter::once(&readme))
+            .map(TempFile::path)
+            .collect();
+        by_testid(&client, "lots-files")
+            .await
+            .send_keys(&paths.join("\n"))
+            .await
+            .expect("give the file input the paths");
+        let status = wait_until_read(&client, expected.counts.read).await;
+        assert!(
+            status.starts_with("4 file(s) read, 1 skipped (not lot files, named below)"),
+            "status: {status}"
+        );
+        let messages = text_of(&client, "lots-file-messages").await;
+        assert!(
+            messages.contains("skipped README.md: not a lot file: line 3: "),
+            "messages: {messages}"
+        );
+        // The four lots are summarised as without the README.
+        for lot in ["C2-4417", "C2-4418", "C2-4421", "C2-4425"] {
+            assert_eq!(summary_cells(&client, lot).await[0], lot);
+        }
+
+        // Every pair with its raw and Holm-adjusted p, as the core computes them.
+        let rows = table_cells(&client, "lots-differences").await;
+        assert_eq!(rows.len(), 7, "six pairs and the all-lots test: {rows:?}");
+        let mut book = LotBook::new();
+        for (_, text) in &texts {
+            read_str(text, &ReadOptions::default(), &mut book, &mut |_| {}).expect("core reads");
+        }
+        let report = book.report(None);
+        for (i, d) in report.differences.iter().enumerate() {
+            let raw: f64 = text_of(&client, &format!("lots-difference-{i}-p"))
+                .await
+                .parse()
+                .expect("raw p");
+            let adjusted: f64 = text_of(&client, &format!("lots-difference-{i}-p-adjusted"))
+                .await
+                .parse()
+                .expect("adjusted p");
+            assert!(((raw - d.test.p_value) / d.test.p_value).abs() <= DISPLAY_REL_TOL);
+            assert!(((adjusted - d.p_adjusted) / d.p_adjusted).abs() <= DISPLAY_REL_TOL);
+            let verdict = text_of(&client, &format!("lots-difference-{i}-verdict")).await;
+            assert_eq!(verdict == "significant", d.p_adjusted < 0.05, "{verdict}");
+        }
+        let method = text_of(&client, "lots-differences-method").await;
+        assert!(
+            method.contains("Holm (1979), Scand. J. Statist. 6, 65-70"),
+            "{method}"
+        );
+        scroll_to(&client, "lots-differences").await;
+        screenshot(&client, "lots-skipped-and-holm-1366").await;
+    })
+    .await;
+}
+
 /// A lot identifier that is HTML markup; it must appear as text and never run.
 const MARKUP_LOT: &str = "<img src=x onerror=alert(1)>";
 

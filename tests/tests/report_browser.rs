@@ -356,7 +356,7 @@ async fn a_saved_record_reopens_identically_and_a_changed_one_is_refused() {
         std::fs::write(artifacts().join("report-point-record.json"), &json).expect("save");
         let record: Value = serde_json::from_str(&json).expect("the record is JSON");
         assert_eq!(record["format"], "bandgauge sign-off record");
-        assert_eq!(record["format_version"], 1);
+        assert_eq!(record["format_version"], 2);
         assert_eq!(record["app_version"], APP_VERSION);
         assert_eq!(record["inputs"]["workbench"]["carriers"]["temperature"], TEMPERATURE);
 
@@ -422,14 +422,14 @@ async fn a_saved_record_reopens_identically_and_a_changed_one_is_refused() {
 
         // A record of a newer layout.
         let mut newer = record.clone();
-        newer["format_version"] = Value::from(2);
+        newer["format_version"] = Value::from(3);
         newer["app_version"] = Value::from("9.0.0");
         let notice = open_record_file(&client, "newer.json", &newer.to_string()).await;
         assert_eq!(
             notice,
             format!(
                 "record not opened: format_version: the record was made by a newer bandgauge \
-                 (record version 2); this bandgauge ({APP_VERSION}) reads record version 1 \
+                 (record version 3); this bandgauge ({APP_VERSION}) reads record version 2 \
                  only; open it with bandgauge 9.0.0 or later. Nothing was changed."
             )
         );

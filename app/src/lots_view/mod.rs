@@ -20,7 +20,7 @@ mod tests;
 
 pub use charts::{distribution_chart, wafer_map};
 pub use snapshot::{LotsInputs, LotsSnapshot, install, is_reading, snapshot};
-pub use summary::{difference_lines, models_used, summary_csv};
+pub use summary::{DifferenceRow, HOLM_ADJUSTMENT, difference_rows, models_used, summary_csv};
 pub use view::LotsView;
 pub use work::{FileStatus, LotsWork, RejectedRow, SitePoint, spec_from_inputs};
 

@@ -82,7 +82,7 @@ fn snapshot_of(work: &LotsWork, inputs: LotsInputs, busy: bool) -> LotsSnapshot 
         file_errors: work
             .files
             .iter()
-            .filter_map(|f| f.error.as_ref().map(|e| format!("{}: {e}", f.name)))
+            .filter_map(|f| work.file_problem(f))
             .collect(),
     }
 }

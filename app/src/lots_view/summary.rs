@@ -76,45 +76,72 @@ pub fn summary_csv(report: &LotReport) -> String {
     out
 }
 
-/// The lot-difference lines the view lists (only those involving `shown` when a lot is
-/// picked; the all-lots test only when none is): Welch per pair, Kruskal-Wallis for all.
-pub fn difference_lines(r: &LotReport, shown: Option<&str>) -> Vec<String> {
-    let mut lines: Vec<String> = r
+/// The multiplicity adjustment of the pairwise p-values, named beside the table.
+pub const HOLM_ADJUSTMENT: &str = "p-values adjusted for the number of pairs tested by Holm's \
+                                   step-down method, Holm (1979), Scand. J. Statist. 6, 65-70; a \
+                                   pair is significant when its adjusted p < 0.05";
+
+/// One row of the lot-difference table.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DifferenceRow {
+    /// "B vs A" for a pair, "all N lots" for the Kruskal-Wallis test.
+    pub lots: String,
+    /// The test, in words.
+    pub test: &'static str,
+    /// How much heavier (> 0) lot B is doped, percent (pairs only).
+    pub percent: Option<f64>,
+    /// Its 95 % confidence interval (pairs only).
+    pub percent_ci95: Option<[f64; 2]>,
+    /// The test's own p-value.
+    pub p_raw: f64,
+    /// The Holm-adjusted p-value (pairs only; the all-lots test is a single test).
+    pub p_adjusted: Option<f64>,
+    /// Whether the (adjusted, for pairs) p is below 0.05.
+    pub significant: bool,
+}
+
+impl DifferenceRow {
+    /// The verdict in words.
+    pub fn verdict(&self) -> &'static str {
+        match (self.significant, self.p_adjusted.is_some()) {
+            (true, true) => "significant",
+            (false, true) => "not significant",
+            (true, false) => "the lots differ",
+            (false, false) => "no significant difference",
+        }
+    }
+}
+
+/// The lot-difference rows the view lists (only those involving `shown` when a lot is picked;
+/// the all-lots test only when none is): Welch per pair with raw and Holm-adjusted p,
+/// Kruskal-Wallis for all.
+pub fn difference_rows(r: &LotReport, shown: Option<&str>) -> Vec<DifferenceRow> {
+    let mut rows: Vec<DifferenceRow> = r
         .differences
         .iter()
         .filter(|d| shown.is_none_or(|f| f == d.lot_a || f == d.lot_b))
-        .map(|d| {
-            format!(
-                "{} vs {}: {:+.1} % dopant density (95 % CI {:+.1} to {:+.1} %), \
-                 Welch p = {}: {}",
-                d.lot_b,
-                d.lot_a,
-                d.percent,
-                d.percent_ci95[0],
-                d.percent_ci95[1],
-                format::auto(d.test.p_value),
-                if d.significant {
-                    "significant"
-                } else {
-                    "not significant"
-                }
-            )
+        .map(|d| DifferenceRow {
+            lots: format!("{} vs {}", d.lot_b, d.lot_a),
+            test: "Welch t on ln density",
+            percent: Some(d.percent),
+            percent_ci95: Some(d.percent_ci95),
+            p_raw: d.test.p_value,
+            p_adjusted: Some(d.p_adjusted),
+            significant: d.significant,
         })
         .collect();
     if let (Some(k), None) = (&r.kruskal_wallis, shown) {
-        lines.push(format!(
-            "All {} lots together: Kruskal-Wallis H = {}, p = {}: {}",
-            k.lots.len(),
-            format::auto(k.test.h),
-            format::auto(k.test.p_value),
-            if k.significant {
-                "the lots differ"
-            } else {
-                "no significant difference"
-            }
-        ));
+        rows.push(DifferenceRow {
+            lots: format!("all {} lots", k.lots.len()),
+            test: "Kruskal-Wallis",
+            percent: None,
+            percent_ci95: None,
+            p_raw: k.test.p_value,
+            p_adjusted: None,
+            significant: k.significant,
+        });
     }
-    lines
+    rows
 }
 
 /// `(quantity, model, source)` of the conversion and the statistics behind a lot report:
@@ -128,8 +155,12 @@ pub fn models_used(r: &LotReport) -> Vec<(String, String, String)> {
         ),
         (
             "lot statistics".to_string(),
-            "Welch's t-test on ln density, Kruskal-Wallis, Cpk".to_string(),
-            "Welch 1947; Kruskal & Wallis 1952; Cpk common practice".to_string(),
+            "Welch's t-test on ln density with Holm-adjusted p-values over all pairs, \
+             Kruskal-Wallis, Cpk"
+                .to_string(),
+            "Welch 1947; Holm (1979), Scand. J. Statist. 6, 65-70; Kruskal & Wallis 1952; Cpk \
+             common practice"
+                .to_string(),
         ),
     ]
 }

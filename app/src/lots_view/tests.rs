@@ -67,6 +67,74 @@ fn chunks_of_any_size_give_the_same_result() {
 }
 
 #[test]
+fn a_file_that_is_not_a_lot_file_is_skipped_among_several() {
+    let mut work = demo_work();
+    work.read_text("README.md", "# Demo wafer lots\n\nInvented data.\n");
+    let readme = work.files.last().expect("read");
+    assert!(readme.not_a_lot_file);
+    let problem = work.file_problem(readme).expect("a problem");
+    assert!(
+        problem.starts_with("skipped README.md: not a lot file: line 3: "),
+        "{problem}"
+    );
+    assert_eq!(work.skipped_files(), 1);
+    assert!(
+        work.status_line(5, false)
+            .contains("4 file(s) read, 1 skipped")
+    );
+    assert_eq!(
+        work.report(None).lots.len(),
+        4,
+        "the other files are summarised"
+    );
+    // Alone it is refused, as `bandgauge lots` refuses it.
+    let mut alone = LotsWork::new(None);
+    alone.read_text("README.md", "# Demo wafer lots\n\nInvented data.\n");
+    let problem = alone.file_problem(&alone.files[0]).expect("a problem");
+    assert!(problem.starts_with("README.md: line 3: "), "{problem}");
+    assert_eq!(alone.skipped_files(), 0);
+    // A lot file with a fault is never skipped.
+    let mut faulty = demo_work();
+    faulty.read_text("no-dopant.csv", "lot,wafer,resistivity\nA,1,10\n");
+    let status = faulty.files.last().expect("read");
+    assert!(!status.not_a_lot_file);
+    assert!(
+        faulty
+            .file_problem(status)
+            .expect("a problem")
+            .starts_with("no-dopant.csv: ")
+    );
+}
+
+#[test]
+fn lot_differences_show_raw_and_holm_adjusted_p() {
+    let report = demo_work().report(None);
+    let rows = difference_rows(&report, None);
+    // Four demo lots: six pairs and the all-lots test.
+    assert_eq!(rows.len(), 7);
+    for d in &rows[..6] {
+        let adjusted = d.p_adjusted.expect("pairs are adjusted");
+        assert!(d.p_raw <= adjusted, "{d:?}");
+        assert_eq!(d.significant, adjusted < 0.05);
+    }
+    assert_eq!(rows[6].p_adjusted, None);
+    // Source: Holm, Scand. J. Statist. 6, 65-70 (1979): the smallest of m = 6 p-values is
+    // multiplied by 6.
+    let smallest = rows[..6]
+        .iter()
+        .min_by(|a, b| a.p_raw.total_cmp(&b.p_raw))
+        .expect("six");
+    let ratio = smallest.p_adjusted.expect("adjusted") / smallest.p_raw;
+    assert!((ratio - 6.0).abs() < 1e-12, "{ratio}");
+    let picked = difference_rows(&report, Some("C2-4417"));
+    assert_eq!(
+        picked.len(),
+        3,
+        "the pairs with the picked lot, no all-lots test"
+    );
+}
+
+#[test]
 fn unusable_files_are_reported_not_summarised() {
     let mut work = LotsWork::new(None);
     work.read_text("no-dopant.csv", "lot,wafer,resistivity\nA,1,10\n");

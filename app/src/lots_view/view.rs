@@ -7,7 +7,7 @@ use leptos::prelude::*;
 use super::charts::{distribution_chart, wafer_map};
 use super::reading::{Handles, Source, files_of, read_sources};
 use super::snapshot::{KEPT, LIVE, Live, LotsInputs};
-use super::summary::{difference_lines, models_used, summary_csv};
+use super::summary::{HOLM_ADJUSTMENT, difference_rows, models_used, summary_csv};
 use super::work::{LotsWork, spec_from_inputs};
 use super::{DEMO_FILES, DEMO_SPEC};
 use crate::Bench;
@@ -158,7 +158,7 @@ pub fn LotsView(
         let mut out = work.with_value(|w| {
             w.files
                 .iter()
-                .filter_map(|f| f.error.as_ref().map(|e| format!("{}: {e}", f.name)))
+                .filter_map(|f| w.file_problem(f))
                 .chain(
                     w.files
                         .iter()
@@ -216,7 +216,7 @@ pub fn LotsView(
         export_error
             .set(browser::download_text(&csv, "text/csv", "bandgauge-lot-summary.csv").err());
     };
-    let differences = move || report.with(|r| difference_lines(r, filter().as_deref()));
+    let differences = move || report.with(|r| difference_rows(r, filter().as_deref()));
     let rejected_count = move || {
         progress.track();
         finished.track();
@@ -364,16 +364,44 @@ pub fn LotsView(
                         {move || report.with(|r| format!("Conversion: {} ({})", r.model, r.model_reference))}
                     </p>
                     <h3>"Do the lots differ?"</h3>
-                    <ul class="differences" data-testid="lots-differences">
-                        {move || {
-                            let lines = differences();
-                            if lines.is_empty() {
-                                view! { <li>"Two or more lots with two or more wafers each are needed for a test."</li> }.into_any()
-                            } else {
-                                lines.into_iter().map(|t| view! { <li>{t}</li> }).collect_view().into_any()
-                            }
-                        }}
-                    </ul>
+                    {move || {
+                        let rows = differences();
+                        if rows.is_empty() {
+                            view! {
+                                <p class="hint" data-testid="lots-differences">
+                                    "Two or more lots with two or more wafers each are needed for a test."
+                                </p>
+                            }.into_any()
+                        } else {
+                            view! {
+                                <table class="models-table differences" data-testid="lots-differences">
+                                    <thead><tr>
+                                        <th scope="col">"Lots"</th>
+                                        <th scope="col">"Density difference"</th>
+                                        <th scope="col">"95 % CI"</th>
+                                        <th scope="col">"p (raw)"</th>
+                                        <th scope="col">"p (Holm-adjusted)"</th>
+                                        <th scope="col" class="left">"Result"</th>
+                                    </tr></thead>
+                                    <tbody>
+                                        {rows.into_iter().enumerate().map(|(i, d)| view! {
+                                            <tr data-testid=format!("lots-difference-{i}")>
+                                                <th scope="row">{d.lots.clone()}<br /><span class="note">{d.test}</span></th>
+                                                <td>{d.percent.map(|p| format!("{p:+.1} %")).unwrap_or_default()}</td>
+                                                <td>{d.percent_ci95.map(|c| format!("{:+.1} to {:+.1} %", c[0], c[1])).unwrap_or_default()}</td>
+                                                <td data-testid=format!("lots-difference-{i}-p")>{format::auto(d.p_raw)}</td>
+                                                <td data-testid=format!("lots-difference-{i}-p-adjusted")>
+                                                    {d.p_adjusted.map(format::auto).unwrap_or_else(|| "— (one test)".into())}
+                                                </td>
+                                                <td class="note" data-testid=format!("lots-difference-{i}-verdict")>{d.verdict()}</td>
+                                            </tr>
+                                        }).collect_view()}
+                                    </tbody>
+                                    <caption class="note" data-testid="lots-differences-method">{HOLM_ADJUSTMENT}</caption>
+                                </table>
+                            }.into_any()
+                        }
+                    }}
                     <Caution models=Signal::derive(move || report.with(models_used)) />
                 </div>
                 <div class="lots-charts">

@@ -26,6 +26,9 @@ pub struct FileStatus {
     pub counts: RowCounts,
     /// Why the file could not be read, if it could not.
     pub error: Option<String>,
+    /// The file is not a lot file at all (no header naming our columns, or not text): among
+    /// several files it is skipped, as `bandgauge lots` does.
+    pub not_a_lot_file: bool,
     /// Remarks on the file (ignored columns, unknown settings).
     pub notes: Vec<String>,
 }
@@ -109,6 +112,7 @@ impl LotsWork {
             bytes_read: 0,
             counts: RowCounts::default(),
             error: None,
+            not_a_lot_file: false,
             notes: Vec::new(),
         });
         if !self.texts_dropped {
@@ -171,6 +175,7 @@ impl LotsWork {
             status.notes = reader.notes().to_vec();
             if let Err(error) = result {
                 status.error = Some(error.to_string());
+                status.not_a_lot_file = error.is_not_a_lot_file();
             }
         }
     }
@@ -327,6 +332,28 @@ impl LotsWork {
         }
     }
 
+    /// What went wrong with file `f`, as the page and the record list it (`None` when it was
+    /// read): among several files one that is not a lot file is skipped and the others are read
+    /// and summarised, the way `bandgauge lots` treats a notes file among prober exports; a
+    /// single such file, or a lot file with a fault, is named with the reason it was refused.
+    pub fn file_problem(&self, f: &FileStatus) -> Option<String> {
+        let error = f.error.as_ref()?;
+        Some(if f.not_a_lot_file && self.files.len() > 1 {
+            format!("skipped {}: not a lot file: {error}", f.name)
+        } else {
+            format!("{}: {error}", f.name)
+        })
+    }
+
+    /// Files skipped as not lot files (only among several).
+    pub fn skipped_files(&self) -> usize {
+        if self.files.len() > 1 {
+            self.files.iter().filter(|f| f.not_a_lot_file).count()
+        } else {
+            0
+        }
+    }
+
     /// Progress of a job of `total_files` files, 0 to 1: files done plus the current fraction.
     pub fn progress_fraction(&self, total_files: usize) -> f64 {
         if total_files == 0 {
@@ -365,7 +392,13 @@ impl LotsWork {
                     total_files.max(self.files.len())
                 )
             }
-            Some(_) => format!("{} file(s) read: {counts}", self.files.len()),
+            Some(_) => match self.skipped_files() {
+                0 => format!("{} file(s) read: {counts}", self.files.len()),
+                skipped => format!(
+                    "{} file(s) read, {skipped} skipped (not lot files, named below): {counts}",
+                    self.files.len() - skipped
+                ),
+            },
         }
     }
 }

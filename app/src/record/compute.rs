@@ -307,22 +307,13 @@ fn conversion(w: &Workbench) -> Result<RecordResults, String> {
                 }
                 _ => words(""),
             };
-            let mut remarks = Vec::new();
-            if let Some(e) = &a.error {
-                remarks.push(e.clone());
-            }
-            if a.model == ConversionModel::Empirical {
-                remarks.push(empirical::EMPIRICAL_REFERENCE.to_string());
-            } else if let ConversionModel::Physics(m) = a.model {
-                remarks.push(m.reference().to_string());
-            }
-            remarks.extend(a.notes.iter().cloned());
+            let (remark, bound) = resistivity::model_remark(a);
             row(
                 a.model_name.clone(),
                 vec![
                     value.map_or_else(|| words("—"), |v| number(format::auto(v), v, "")),
-                    deviation,
-                    words(remarks.join("; ")),
+                    if bound { words("") } else { deviation },
+                    words(remark),
                 ],
             )
         })
@@ -354,33 +345,38 @@ fn conversion(w: &Workbench) -> Result<RecordResults, String> {
         Some(r) => r?,
         None => return Err(first_probe_problem(&probe_inputs)),
     };
-    let density = empirical::convert(
-        "si",
-        &c.dopant,
-        EmpiricalInput::ResistivityOhmCm(probe.resistivity_ohm_cm),
-    );
+    let density = probe
+        .resistivity_ohm_cm
+        .map(|rho| empirical::convert("si", &c.dopant, EmpiricalInput::ResistivityOhmCm(rho)));
     let probe_rows = vec![
         row(
             "Sheet resistance Rs",
             vec![match probe.sheet_resistance_ohm_sq {
                 Some(v) => number(format::auto(v), v, "Ω/□"),
-                None => words("— (bulk)"),
+                None => words("— (bulk, no thickness)"),
             }],
         ),
         row(
             "Resistivity ρ (23 C)",
-            vec![number(
-                format::auto(probe.resistivity_ohm_cm),
-                probe.resistivity_ohm_cm,
-                "Ω·cm",
-            )],
+            vec![match probe.resistivity_ohm_cm {
+                Some(v) => number(format::auto(v), v, "Ω·cm"),
+                None => words("— (thin layer: give its thickness)"),
+            }],
         ),
-        row("Geometry", vec![words(probe.geometry)]),
+        row(
+            "Geometry",
+            vec![words(format!(
+                "{}: {}",
+                resistivity::geometry_words(probe.geometry),
+                probe.geometry.describe()
+            ))],
+        ),
         row(
             "Dopant density (empirical)",
             vec![match &density {
-                Ok(d) => number(format::sci(d.density_cm3), d.density_cm3, "cm⁻³"),
-                Err(_) => words("out of range"),
+                Some(Ok(d)) => number(format::sci(d.density_cm3), d.density_cm3, "cm⁻³"),
+                Some(Err(_)) => words("out of range"),
+                None => words("—"),
             }],
         ),
     ];
@@ -462,7 +458,7 @@ fn lot_comparison(lots: &LotInputs) -> Result<RecordResults, String> {
                     count(f.counts.read),
                     count(f.counts.converted),
                     count(f.counts.rejected),
-                    words(f.error.clone().unwrap_or_default()),
+                    words(work.file_problem(f).unwrap_or_default()),
                 ],
             )
         })
@@ -519,10 +515,25 @@ fn lot_comparison(lots: &LotInputs) -> Result<RecordResults, String> {
             })
         })
         .collect();
-    let differences = lots_view::difference_lines(&report, None)
+    let differences = lots_view::difference_rows(&report, None)
         .into_iter()
-        .enumerate()
-        .map(|(i, line)| row((i + 1).to_string(), vec![words(line)]))
+        .map(|d| {
+            row(
+                d.lots.clone(),
+                vec![
+                    words(d.test),
+                    optional(d.percent, |p| format!("{p:+.1} %")),
+                    words(
+                        d.percent_ci95
+                            .map(|c| format!("{:+.1} to {:+.1} %", c[0], c[1]))
+                            .unwrap_or_default(),
+                    ),
+                    number(format::auto(d.p_raw), d.p_raw, ""),
+                    optional(d.p_adjusted, format::auto),
+                    words(d.verdict()),
+                ],
+            )
+        })
         .collect();
     let rejected = work
         .rejected
@@ -614,7 +625,19 @@ fn lot_comparison(lots: &LotInputs) -> Result<RecordResults, String> {
                 ],
                 wafer_rows,
             ),
-            section("Do the lots differ?", &["", "Test"], differences),
+            section(
+                "Do the lots differ?",
+                &[
+                    "Lots",
+                    "Test",
+                    "Density difference",
+                    "95 % CI",
+                    "p (raw)",
+                    "p (Holm-adjusted)",
+                    "Result",
+                ],
+                differences,
+            ),
             section("Rejected rows", &["File and line", "Reason"], rejected),
         ],
         models: model_lines(lots_view::models_used(&report)),

@@ -38,6 +38,13 @@ pub enum RecordError {
         /// The app version the record names, if any.
         app_version: Option<String>,
     },
+    /// Written by an older bandgauge, in a layout whose meaning has changed since.
+    OlderVersion {
+        /// The record's version.
+        found: u64,
+        /// The app version the record names, if any.
+        app_version: Option<String>,
+    },
     /// A version number this bandgauge never wrote (0, negative, not a whole number).
     UnsupportedVersion {
         /// The version given, as written.
@@ -122,6 +129,19 @@ impl fmt::Display for RecordError {
                 match app_version {
                     Some(v) => write!(f, "bandgauge {v} or later"),
                     None => write!(f, "a newer bandgauge"),
+                }
+            }
+            RecordError::OlderVersion { found, app_version } => {
+                write!(
+                    f,
+                    "format_version: the record was made by an older bandgauge (record version \
+                     {found}); this bandgauge ({APP_VERSION}) reads record version \
+                     {RECORD_VERSION} only (since version 2 a probe result states its sample \
+                     geometry and a lot comparison its Holm-adjusted p-values); open it with "
+                )?;
+                match app_version {
+                    Some(v) => write!(f, "bandgauge {v}"),
+                    None => write!(f, "the bandgauge that wrote it"),
                 }
             }
             RecordError::UnsupportedVersion { found } => write!(

@@ -42,7 +42,9 @@ pub use write::{capture, file_name, to_json};
 /// What a sign-off record says it is, in its `format` member.
 pub const RECORD_FORMAT: &str = "bandgauge sign-off record";
 /// The record layout this bandgauge writes and reads.
-pub const RECORD_VERSION: u32 = 1;
+pub const RECORD_VERSION: u32 = 2;
+/// [`RECORD_VERSION`] as the number read from JSON.
+pub(crate) const RECORD_VERSION_U64: u64 = RECORD_VERSION as u64;
 /// This bandgauge's version.
 pub const APP_VERSION: &str = env!("CARGO_PKG_VERSION");
 /// The commit this bandgauge was built from (`cargo xtask` passes it), or "unknown".

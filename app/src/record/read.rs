@@ -4,7 +4,10 @@
 use serde_json::Value;
 
 use super::digest::digest_of_members;
-use super::{MEMBERS, RECORD_FORMAT, RECORD_VERSION, RecordError, RecordedView, SignoffRecord};
+use super::{
+    MEMBERS, RECORD_FORMAT, RECORD_VERSION, RECORD_VERSION_U64, RecordError, RecordedView,
+    SignoffRecord,
+};
 
 /// Reads a record: JSON, the format, the version, the digest, then every member.
 ///
@@ -110,6 +113,12 @@ fn check_version(members: &serde_json::Map<String, Value>) -> Result<(), RecordE
         Some(Value::Number(n)) => match n.as_u64() {
             Some(v) if v == u64::from(RECORD_VERSION) => Ok(()),
             Some(v) if v > u64::from(RECORD_VERSION) => Err(RecordError::NewerVersion {
+                found: v,
+                app_version,
+            }),
+            // Version 1 was written by bandgauge 0.1 before the probe geometry and the Holm
+            // adjustment (see DEVELOPERS.md, "Layout changes").
+            Some(v @ 1..RECORD_VERSION_U64) => Err(RecordError::OlderVersion {
                 found: v,
                 app_version,
             }),

@@ -253,28 +253,28 @@ fn an_input_edited_with_a_new_digest_is_caught_by_the_replay() {
 #[test]
 fn newer_version_is_refused_naming_both_versions() {
     let text = redigested(&written(View::Carriers), |v| {
-        v["format_version"] = Value::from(2);
+        v["format_version"] = Value::from(3);
         v["app_version"] = Value::String("9.1.0".into());
     });
     assert_eq!(
         refused(&text),
         format!(
-            "format_version: the record was made by a newer bandgauge (record version 2); \
-                 this bandgauge ({APP_VERSION}) reads record version 1 only; open it with \
+            "format_version: the record was made by a newer bandgauge (record version 3); \
+                 this bandgauge ({APP_VERSION}) reads record version 2 only; open it with \
                  bandgauge 9.1.0 or later"
         )
     );
     // A newer record is refused before its digest is looked at: its layout may differ.
     let text =
-        written(View::Carriers).replacen("\"format_version\": 1", "\"format_version\": 7", 1);
+        written(View::Carriers).replacen("\"format_version\": 2", "\"format_version\": 7", 1);
     assert!(refused(&text).contains("(record version 7)"));
 }
 
 #[test]
 fn unknown_and_older_versions_are_refused() {
-    for (version, shown) in [("0", "0"), ("-1", "-1"), ("1.5", "1.5"), ("\"1\"", "\"1\"")] {
+    for (version, shown) in [("0", "0"), ("-1", "-1"), ("1.5", "1.5"), ("\"2\"", "\"2\"")] {
         let text = written(View::Carriers).replacen(
-            "\"format_version\": 1",
+            "\"format_version\": 2",
             &format!("\"format_version\": {version}"),
             1,
         );
@@ -282,10 +282,25 @@ fn unknown_and_older_versions_are_refused() {
             refused(&text),
             format!(
                 "format_version: {shown} is not a record version bandgauge ever wrote; this \
-                     bandgauge reads record version 1"
+                     bandgauge reads record version 2"
             )
         );
     }
+    // Version 1 was written, before the probe geometry and the Holm adjustment: refused with a
+    // message naming the bandgauge that wrote it, not silently upgraded.
+    let text = redigested(&written(View::Resistivity), |v| {
+        v["format_version"] = Value::from(1);
+        v["app_version"] = Value::String("0.1.0".into());
+    });
+    assert_eq!(
+        refused(&text),
+        format!(
+            "format_version: the record was made by an older bandgauge (record version 1); this \
+             bandgauge ({APP_VERSION}) reads record version 2 only (since version 2 a probe \
+             result states its sample geometry and a lot comparison its Holm-adjusted \
+             p-values); open it with bandgauge 0.1.0"
+        )
+    );
 }
 
 #[test]
@@ -364,13 +379,13 @@ fn missing_and_unknown_members_are_named() {
     });
     assert_eq!(
         refused(&text),
-        "results: invalid type: floating point `1.1112`, expected a string; a version 1 \
+        "results: invalid type: floating point `1.1112`, expected a string; a version 2 \
              record cannot have it"
     );
     let text = redigested(&written(View::Carriers), |v| {
         v["signed_by"] = Value::String("me".into());
     });
-    assert!(refused(&text).starts_with("signed_by: is not a member of a version 1 record"));
+    assert!(refused(&text).starts_with("signed_by: is not a member of a version 2 record"));
     let text = written(View::Carriers);
     let no_digest = {
         let mut v: Value = serde_json::from_str(&text).unwrap();

@@ -14,17 +14,20 @@ use crate::empirical::{
     EMPIRICAL_REFERENCE, EMPIRICAL_TEMPERATURE_K, EmpiricalRelation, density_from_resistivity_cm3,
 };
 use crate::lots::columns::Column;
-use crate::lots::reader::{RowCounts, RowRejection, Site};
+use crate::lots::reader::{Measurement, RowCounts, RowRejection, Site};
 use crate::lots::stats::{
-    KruskalWallis, MedianSketch, Moments, Summary, WelchTest, kruskal_wallis, welch_t_test,
+    KruskalWallis, MedianSketch, Moments, Summary, WelchTest, holm_adjusted, kruskal_wallis,
+    welch_t_test,
 };
 use crate::lots::verdict::{Judgement, SpecQuantity, SpecWindow, Verdict};
 use crate::materials;
 use crate::mobility::ConductivityType;
 use crate::neutrality::SolveOptions;
+use crate::probe::ProbeGeometry;
 
-/// p-value below which a lot-to-lot difference is called significant (common practice, no
-/// source).
+/// Family-wise level below which a lot-to-lot difference is called significant: the pairwise
+/// tests' Holm-adjusted p-values and the single Kruskal-Wallis p-value are compared with it
+/// (common practice, no source).
 pub const SIGNIFICANCE_LEVEL: f64 = 0.05;
 
 /// Up to this many lots every pair is tested; beyond it each lot is tested against the first
@@ -50,7 +53,9 @@ pub const DEFINITIONS: Definitions = Definitions {
     lot_difference: "Welch's t-test on ln(wafer mean density), wafers as the units, for every \
                      pair of lots (each lot against the first when there are more than 10); \
                      ratio = exp(difference of means), i.e. the ratio of geometric means; \
-                     significant when p < 0.05. Kruskal-Wallis on the wafer mean densities when three or \
+                     the pairwise p-values are adjusted for the number of pairs tested by \
+                     Holm's step-down method (Holm (1979), Scand. J. Statist. 6, 65-70) and a \
+                     pair is significant when its adjusted p < 0.05. Kruskal-Wallis on the wafer mean densities when three or \
                      more lots are compared",
 };
 
@@ -117,6 +122,16 @@ pub struct LotBook {
     last: Option<(usize, usize)>,
     counts: RowCounts,
     used_phosphorus_for_other: bool,
+    probe_rows: ProbeRowCounts,
+}
+
+/// Four-point-probe rows converted, by the geometry they were evaluated for.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq, Serialize)]
+pub struct ProbeRowCounts {
+    /// Rows evaluated as a thin layer or wafer.
+    pub thin_layer: u64,
+    /// Rows evaluated as a bulk sample.
+    pub bulk: u64,
 }
 
 impl LotBook {
@@ -207,6 +222,12 @@ impl LotBook {
         if site.dopant == "As" || site.dopant == "Sb" {
             self.used_phosphorus_for_other = true;
         }
+        if let Measurement::Probe { geometry, .. } = site.measurement {
+            match geometry {
+                ProbeGeometry::ThinLayer => self.probe_rows.thin_layer += 1,
+                ProbeGeometry::Bulk => self.probe_rows.bulk += 1,
+            }
+        }
         self.last = Some((lot_index, wafer_index));
         self.counts.read += 1;
         self.counts.converted += 1;
@@ -264,6 +285,20 @@ impl LotBook {
                     .to_owned(),
             );
         }
+        let probe = self.probe_rows;
+        for (rows, geometry) in [
+            (probe.thin_layer, ProbeGeometry::ThinLayer),
+            (probe.bulk, ProbeGeometry::Bulk),
+        ] {
+            if rows > 0 {
+                notes.push(format!(
+                    "{rows} four-point-probe row(s) evaluated with geometry {}: {}; the exact \
+                     finite-thickness correction (Uhlir 1955) applied where a thickness is given",
+                    geometry.id(),
+                    geometry.describe()
+                ));
+            }
+        }
         notes.extend(model_spread.notes);
         let (differences, kruskal_wallis) = compare_lots(&self.lots, &mut notes);
         LotReport {
@@ -276,6 +311,7 @@ impl LotBook {
             lots,
             differences,
             kruskal_wallis,
+            probe_rows: self.probe_rows,
             notes,
         }
     }
@@ -302,6 +338,8 @@ pub struct LotReport {
     pub differences: Vec<LotDifference>,
     /// Kruskal-Wallis over all such lots, when there are three or more.
     pub kruskal_wallis: Option<LotRankTest>,
+    /// Four-point-probe rows by geometry.
+    pub probe_rows: ProbeRowCounts,
     /// Remarks a reader must see.
     pub notes: Vec<String>,
 }
@@ -391,9 +429,11 @@ pub struct LotDifference {
     pub percent: f64,
     /// 95 % confidence interval of `percent`.
     pub percent_ci95: [f64; 2],
-    /// The test on ln density.
+    /// The test on ln density (its `p_value` is the raw, unadjusted one).
     pub test: WelchTest,
-    /// p < [`SIGNIFICANCE_LEVEL`].
+    /// The p-value adjusted for all pairs tested (Holm 1979).
+    pub p_adjusted: f64,
+    /// Adjusted p < [`SIGNIFICANCE_LEVEL`].
     pub significant: bool,
 }
 
@@ -704,10 +744,16 @@ fn compare_lots(
                     100.0 * (test.ci95_low.exp() - 1.0),
                     100.0 * (test.ci95_high.exp() - 1.0),
                 ],
-                significant: test.p_value < SIGNIFICANCE_LEVEL,
+                p_adjusted: test.p_value,
+                significant: false,
                 test,
             });
         }
+    }
+    let raw: Vec<f64> = differences.iter().map(|d| d.test.p_value).collect();
+    for (d, adjusted) in differences.iter_mut().zip(holm_adjusted(&raw)) {
+        d.p_adjusted = adjusted;
+        d.significant = adjusted < SIGNIFICANCE_LEVEL;
     }
     let types: Vec<ConductivityType> = eligible
         .iter()

@@ -42,11 +42,13 @@ pub enum Column {
     Spacing,
     /// Relative half-width of the measured value's uncertainty, in percent.
     Uncertainty,
+    /// The sample geometry of a probe reading: thin-layer (default) or bulk.
+    Geometry,
 }
 
 impl Column {
     /// Every column, in the order the documentation lists them.
-    pub const ALL: [Column; 14] = [
+    pub const ALL: [Column; 15] = [
         Column::Lot,
         Column::Wafer,
         Column::Site,
@@ -61,6 +63,7 @@ impl Column {
         Column::Amps,
         Column::Spacing,
         Column::Uncertainty,
+        Column::Geometry,
     ];
 
     /// The name as written in a header (lower case, underscores).
@@ -80,6 +83,7 @@ impl Column {
             Column::Amps => "amps",
             Column::Spacing => "spacing",
             Column::Uncertainty => "uncertainty",
+            Column::Geometry => "geometry",
         }
     }
 
@@ -123,6 +127,7 @@ impl Column {
                 | Column::Thickness
                 | Column::Spacing
                 | Column::Uncertainty
+                | Column::Geometry
         )
     }
 

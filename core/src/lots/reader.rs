@@ -11,7 +11,7 @@ use crate::empirical::{EmpiricalRelation, density_from_resistivity_cm3};
 use crate::lots::book::LotBook;
 use crate::lots::columns::{Column, header_unit, normalise_name, split_name_and_unit, unit_entry};
 use crate::mobility::ConductivityType;
-use crate::probe::{self, ProbeReading};
+use crate::probe::{self, ProbeGeometry, ProbeReading};
 use crate::units::{Unit, parse_quantity_bare_in};
 
 /// Longest line accepted, bytes: a lot file's lines are short; a longer one means the input
@@ -48,10 +48,13 @@ pub enum Measurement {
         amps: f64,
         /// Probe spacing, cm.
         spacing_cm: f64,
-        /// Thickness, cm.
-        thickness_cm: f64,
-        /// Sheet resistance after the thickness correction, ohm/sq.
-        sheet_resistance_ohm_sq: f64,
+        /// The sample geometry the reading was evaluated for.
+        geometry: ProbeGeometry,
+        /// Thickness, cm (always for a thin layer; a bulk sample may leave it out).
+        thickness_cm: Option<f64>,
+        /// Sheet resistance after the corrections, ohm/sq (`None` for a bulk sample without a
+        /// thickness).
+        sheet_resistance_ohm_sq: Option<f64>,
     },
 }
 
@@ -196,6 +199,19 @@ pub enum LotFileError {
     },
 }
 
+impl LotFileError {
+    /// Whether the file is not a lot file at all (no header line, a first line naming none of
+    /// our columns, or bytes before any header that are not text), as opposed to a lot file
+    /// with a fault: among several files such a file can be skipped (a notes or summary file in
+    /// a folder of exports) without losing anything, since nothing of it was read.
+    pub fn is_not_a_lot_file(&self) -> bool {
+        matches!(
+            self,
+            LotFileError::NoHeader | LotFileError::NotAHeader { .. } | LotFileError::NotText { .. }
+        )
+    }
+}
+
 impl fmt::Display for LotFileError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
@@ -246,6 +262,7 @@ struct Settings {
     thickness_cm: Option<f64>,
     spacing_cm: Option<f64>,
     uncertainty: Option<f64>,
+    geometry: Option<ProbeGeometry>,
 }
 
 /// Where each of our columns sits, its unit, and how the file writes numbers.
@@ -524,7 +541,7 @@ impl LotReader {
                 self.notes.push(format!(
                     "line {line}: '{name}' is not a setting bandgauge knows; the line is read as \
                      a comment (settings: lot, wafer, dopant, type, thickness, spacing, \
-                     uncertainty)"
+                     uncertainty, geometry)"
                 ));
             }
             return Ok(());
@@ -533,7 +550,7 @@ impl LotReader {
         if !column.settable() {
             return Err(fail(format!(
                 "{column} cannot be set for a whole file; it belongs in a column (settings: \
-                 lot, wafer, dopant, type, thickness, spacing, uncertainty)"
+                 lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry)"
             )));
         }
         if value.is_empty() {
@@ -545,6 +562,7 @@ impl LotReader {
             Column::Wafer => s.wafer = Some(value.to_owned()),
             Column::Dopant => s.dopant = Some(parse_dopant(value).map_err(fail)?),
             Column::Type => s.conductivity_type = Some(parse_type(value).map_err(fail)?),
+            Column::Geometry => s.geometry = Some(parse_geometry(value).map_err(fail)?),
             Column::Thickness | Column::Spacing | Column::Uncertainty => {
                 let number = parse_number(column, value, None, None, true, &mut self.number)
                     .map_err(|reason| fail(format!("{column}: {reason}")))?;
@@ -754,10 +772,12 @@ fn check_header(header: &Header, settings: &Settings, options: &ReadOptions) -> 
                 .to_owned(),
         );
     }
-    if probe && !thickness {
+    let bulk_possible = has(Column::Geometry) || settings.geometry == Some(ProbeGeometry::Bulk);
+    if probe && !thickness && !bulk_possible {
         return Err(
-            "volts and amps need a thickness: add a thickness column or a line \
-                    '# thickness: 525 um' before the header"
+            "volts and amps on a thin layer need a thickness: add a thickness column or a line \
+                    '# thickness: 525 um' before the header, or '# geometry: bulk' for a bulk \
+                    sample"
                 .to_owned(),
         );
     }
@@ -781,6 +801,20 @@ fn check_header(header: &Header, settings: &Settings, options: &ReadOptions) -> 
         );
     }
     Ok(())
+}
+
+/// A probe geometry id: thin-layer or bulk (any case; a space or underscore for the hyphen).
+///
+/// # Errors
+/// A message naming the text and the accepted geometries.
+pub fn parse_geometry(text: &str) -> Result<ProbeGeometry, String> {
+    ProbeGeometry::from_id(text).ok_or_else(|| {
+        format!(
+            "{:?} is not a probe geometry; give thin-layer (sheet resistance of a layer or \
+             wafer; resistivity with its thickness) or bulk (semi-infinite sample)",
+            text.trim()
+        )
+    })
 }
 
 /// Dopant symbol or name (B, P, As, Sb; boron, phosphorus, arsenic, antimony; any case) to the
@@ -1054,7 +1088,16 @@ fn read_row<'a>(
                 "empty; a probe reading needs both volts and amps".to_owned(),
             ));
         };
-        let thickness_cm = thickness(buffer)?;
+        let geometry = match cell(Column::Geometry) {
+            "" => settings.geometry.unwrap_or_default(),
+            text => {
+                parse_geometry(text).map_err(|reason| reject(Some(Column::Geometry), reason))?
+            }
+        };
+        let thickness_cm = match geometry {
+            ProbeGeometry::ThinLayer => Some(thickness(buffer)?),
+            ProbeGeometry::Bulk => number(Column::Thickness, buffer)?.or(settings.thickness_cm),
+        };
         let spacing_cm = number(Column::Spacing, buffer)?
             .or(settings.spacing_cm)
             .ok_or_else(|| {
@@ -1067,20 +1110,28 @@ fn read_row<'a>(
             volts,
             amps,
             spacing_cm,
-            thickness_cm: Some(thickness_cm),
+            geometry,
+            thickness_cm,
             diameter_cm: None,
             temperature: None,
         };
         let result = probe::evaluate(&reading).map_err(|e| reject(None, e.to_string()))?;
+        let rho = result.resistivity_ohm_cm.ok_or_else(|| {
+            reject(
+                Some(Column::Thickness),
+                "empty; a thin layer has a resistivity only with its thickness".to_owned(),
+            )
+        })?;
         (
             Measurement::Probe {
                 volts,
                 amps,
                 spacing_cm,
+                geometry,
                 thickness_cm,
-                sheet_resistance_ohm_sq: result.sheet_resistance_ohm_sq.unwrap_or(f64::NAN),
+                sheet_resistance_ohm_sq: result.sheet_resistance_ohm_sq,
             },
-            result.resistivity_ohm_cm,
+            rho,
             Column::Volts,
         )
     };

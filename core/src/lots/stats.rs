@@ -11,6 +11,7 @@
 //!   [`student_t_cdf`], [`student_t_pdf`], [`student_t_two_sided_p`], [`student_t_quantile`],
 //!   [`chi_squared_survival`].
 //! - [`welch_t_test`] -> [`WelchTest`]; [`kruskal_wallis`] -> [`KruskalWallis`]; [`StatsError`].
+//! - [`holm_adjusted`]: Holm's step-down family-wise adjustment of a family of p-values.
 
 use std::collections::BTreeMap;
 use std::fmt;
@@ -721,6 +722,43 @@ pub fn welch_t_test(a: &[f64], b: &[f64]) -> Result<WelchTest, StatsError> {
         ci95_low: difference - half_width,
         ci95_high: difference + half_width,
     })
+}
+
+/// Holm's step-down adjustment of the p-values of a family of tests, in the order given.
+///
+/// # Formula
+/// With m tests and the p-values sorted ascending, p_(1) <= ... <= p_(m):
+/// adjusted p_(i) = max over j <= i of min(1, (m - j + 1) p_(j)). Rejecting every hypothesis
+/// whose adjusted p is below alpha keeps the family-wise error rate at most alpha, whatever the
+/// dependence between the tests.
+///
+/// # Validity
+/// Any family of valid p-values; a NaN p-value stays NaN and is ordered last (it rejects
+/// nothing).
+///
+/// # References
+/// Holm, Scand. J. Statist. 6, 65-70 (1979).
+///
+/// # Errors
+/// None.
+pub fn holm_adjusted(p_values: &[f64]) -> Vec<f64> {
+    let m = p_values.len();
+    let mut order: Vec<usize> = (0..m).collect();
+    order.sort_by(|&a, &b| {
+        let (pa, pb) = (p_values[a], p_values[b]);
+        pa.is_nan().cmp(&pb.is_nan()).then(pa.total_cmp(&pb))
+    });
+    let mut adjusted = vec![f64::NAN; m];
+    let mut running = 0.0_f64;
+    for (rank, &index) in order.iter().enumerate() {
+        let p = p_values[index];
+        if p.is_nan() {
+            continue;
+        }
+        running = running.max(((m - rank) as f64 * p).min(1.0));
+        adjusted[index] = running;
+    }
+    adjusted
 }
 
 /// Result of the Kruskal-Wallis test.

@@ -72,6 +72,7 @@ pub fn workbench(u: &mut Unstructured<'_>) -> Result<Workbench> {
             probe_current: text(u, &["1 mA", "0.001", "1 uA", "0"])?,
             probe_voltage: text(u, &["4.5 mV", "0.01", "1 V"])?,
             probe_spacing: text(u, &["1 mm", "1.59 mm", "0.1"])?,
+            probe_geometry: text(u, &["thin-layer", "bulk", "", "Thin Layer"])?,
             sample_thickness: text(u, LENGTHS)?,
             wafer_diameter: text(u, &["150 mm", "200 mm", "", "1 mm"])?,
             probe_temperature: text(u, &["23 C", "25 C", "", "300 K"])?,

@@ -21,6 +21,7 @@ use bandgauge_core::lots::{
     LotBook, LotFileError, LotReader, LotReport, Measurement, ReadOptions, RowCounts, RowOutcome,
     Site, SpecQuantity, SpecWindow, read_str,
 };
+use bandgauge_core::probe::ProbeGeometry;
 
 /// Checks one input; panics with a message naming the broken invariant.
 pub fn check(data: &[u8]) {
@@ -243,14 +244,32 @@ fn check_site(site: &Site<'_>) {
             volts,
             amps,
             spacing_cm,
+            geometry,
             thickness_cm,
             sheet_resistance_ohm_sq,
         } => {
             positive("volts", volts);
             positive("amps", amps);
             positive("spacing_cm", spacing_cm);
-            positive("thickness_cm", thickness_cm);
-            positive("sheet_resistance_ohm_sq", sheet_resistance_ohm_sq);
+            // A thin layer converts only with its thickness; a sheet resistance comes with a
+            // thin layer or a thickness, and only then.
+            assert!(
+                geometry == ProbeGeometry::Bulk || thickness_cm.is_some(),
+                "line {}: a thin-layer probe row converted without a thickness",
+                site.line
+            );
+            assert_eq!(
+                sheet_resistance_ohm_sq.is_some(),
+                geometry == ProbeGeometry::ThinLayer || thickness_cm.is_some(),
+                "line {}: sheet resistance present or absent against the geometry",
+                site.line
+            );
+            thickness_cm
+                .into_iter()
+                .for_each(|t| positive("thickness_cm", t));
+            sheet_resistance_ohm_sq
+                .into_iter()
+                .for_each(|r| positive("sheet_resistance_ohm_sq", r));
         }
     }
 }
