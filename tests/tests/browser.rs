@@ -4,6 +4,7 @@
 //! every chart canvas is drawn. Screenshots land in tests/artifacts/ for a person to inspect.
 
 use bandgauge_app::resistivity::PHONON_LIMIT_REMARK;
+use bandgauge_app::state::{View, Workbench, to_query};
 use bandgauge_core::compare::{self, ConversionInput};
 use bandgauge_core::empirical::{self, EMPIRICAL_TEMPERATURE_K, EmpiricalInput};
 use bandgauge_core::intrinsic::IntrinsicModel;
@@ -583,36 +584,6 @@ async fn resistivity_view_compares_models_and_runs_the_probe() {
             "thin layer or wafer"
         );
 
-        // A thin layer of unknown thickness: the sheet resistance only, Smits-corrected.
-        retype(&client, "probe-thickness", "").await;
-        text_until(&client, "probe-resistivity", |t| {
-            t.contains("give its thickness")
-        })
-        .await;
-        // Source: Smits, Bell Syst. Tech. J. 37, 711 (1958), closed form at d/s = 40:
-        // C = 4.50797, so R_s = C V/I = 4.508 ohm/sq at V/I = 1 ohm.
-        let sheet = number_until(&client, "probe-sheet", |_| true).await;
-        assert!((sheet / 4.50797 - 1.0).abs() < 1e-3, "{sheet}");
-        let hint = text_of(&client, "probe-geometry-hint").await;
-        assert!(hint.contains("only with a thickness"), "{hint}");
-
-        // A bulk sample: rho = 2 pi s V/I (Valdes, Proc. IRE 42, 420 (1954)) = 0.6283 ohm cm at
-        // s = 1 mm and V/I = 1 ohm; no diameter correction on a bulk sample.
-        retype(&client, "probe-diameter", "").await;
-        choose(&client, "probe-geometry-choice", "bulk").await;
-        let rho = number_until(&client, "probe-resistivity", |v| {
-            (v / 0.628_318 - 1.0).abs() < 1e-3
-        })
-        .await;
-        assert!((rho / (2.0 * std::f64::consts::PI * 0.1) - 1.0).abs() <= DISPLAY_REL_TOL);
-        assert_eq!(
-            text_of(&client, "probe-geometry").await,
-            "bulk sample (semi-infinite)"
-        );
-        let hint = text_of(&client, "probe-geometry-hint").await;
-        assert!(hint.starts_with("ρ = 2π·s·V/I"), "{hint}");
-        choose(&client, "probe-geometry-choice", "thin-layer").await;
-
         // A reading at 30 C, corrected to 23 C with the dopant's first mobility model.
         retype(&client, "probe-thickness", "525 um").await;
         retype(&client, "probe-diameter", "150 mm").await;
@@ -644,6 +615,60 @@ async fn resistivity_view_compares_models_and_runs_the_probe() {
         assert!(msg.starts_with("current:"), "{msg}");
         retype(&client, "probe-current", "1 mA").await;
         screenshot(&client, "resistivity-1366x768").await;
+
+        // A thin layer of unknown thickness, opened from a link: the sheet resistance only,
+        // Smits-corrected. (A link, because WebDriver's clear fires no input event.)
+        let mut w = Workbench {
+            view: View::Resistivity,
+            ..Workbench::default()
+        };
+        w.conversion.probe_current = "1 mA".into();
+        w.conversion.probe_voltage = "1 mV".into();
+        w.conversion.probe_spacing = "1 mm".into();
+        w.conversion.sample_thickness = String::new();
+        w.conversion.wafer_diameter = "40 mm".into();
+        w.conversion.probe_temperature = "23 C".into();
+        client
+            .goto(&format!("{base}?{}", to_query(&w)))
+            .await
+            .expect("open the link");
+        let rho = text_until(&client, "probe-resistivity", |t| {
+            t.contains("give its thickness")
+        })
+        .await;
+        assert!(rho.contains("give its thickness"), "{rho}");
+        // Source: Smits, Bell Syst. Tech. J. 37, 711 (1958), closed form at d/s = 40:
+        // C = 4.50797, so R_s = C V/I = 4.508 ohm/sq at V/I = 1 ohm.
+        let sheet = number_until(&client, "probe-sheet", |_| true).await;
+        assert!((sheet / 4.50797 - 1.0).abs() < 1e-3, "{sheet}");
+        assert_eq!(
+            text_of(&client, "probe-geometry").await,
+            "thin layer or wafer"
+        );
+        let hint = text_of(&client, "probe-geometry-hint").await;
+        assert!(hint.contains("only with a thickness"), "{hint}");
+
+        // A bulk sample: rho = 2 pi s V/I (Valdes, Proc. IRE 42, 420 (1954)) = 0.6283 ohm cm at
+        // s = 1 mm and V/I = 1 ohm; no diameter correction on a bulk sample.
+        w.conversion.wafer_diameter = String::new();
+        w.conversion.probe_geometry = "bulk".into();
+        client
+            .goto(&format!("{base}?{}", to_query(&w)))
+            .await
+            .expect("open the link");
+        let rho = number_until(&client, "probe-resistivity", |v| {
+            (v / 0.628_318 - 1.0).abs() < 1e-3
+        })
+        .await;
+        assert!((rho / (2.0 * std::f64::consts::PI * 0.1) - 1.0).abs() <= DISPLAY_REL_TOL);
+        assert_eq!(
+            text_of(&client, "probe-geometry").await,
+            "bulk sample (semi-infinite)"
+        );
+        assert_eq!(value_of(&client, "probe-geometry-choice").await, "bulk");
+        let hint = text_of(&client, "probe-geometry-hint").await;
+        assert!(hint.starts_with("ρ = 2π·s·V/I"), "{hint}");
+        screenshot(&client, "resistivity-bulk-1366x768").await;
     })
     .await;
 }
