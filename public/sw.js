@@ -2,7 +2,7 @@
 // opens and computes without a network, and lets a new build take over on the next reload.
 //
 // `cargo xtask dist` fills in BUILD_ID and APP_FILES below (the content-hashed file names of
-// that build). Left as written here (`trunk serve` during development) the worker does
+// that build). Left as written here (never served: every build fills it in) the worker does
 // nothing: it caches nothing, answers no request and removes caches of earlier builds.
 //
 // It holds app files only, never user data: inputs stay in localStorage, lot files in memory.

@@ -7,7 +7,6 @@ mod dist;
 mod fuzz;
 mod serve;
 mod shell;
-mod single_file;
 mod test;
 mod tools;
 
@@ -17,8 +16,11 @@ const USAGE: &str = "\
 usage: cargo xtask <command> [options]
 
 commands:
-  serve [--port N]   install missing tools, build the app and serve it on http://127.0.0.1:N (default 8080)
-  dist               release build of the app into dist/
+  serve [--port N] [--release]
+                     install missing tools, build the app and serve it on http://127.0.0.1:N
+                     (default 8080); an edit rebuilds it (a development build unless --release)
+  dist [--out DIR]   release build of the app into dist/ (or DIR), with the self-contained
+                     dist/bandgauge-standalone.html
   test               every check: fmt, clippy (native and wasm32), unit and reference tests,
                      the wasm release build and the browser tests; ends with 'N passed, N failed'
   bench              criterion benchmarks of the core and in-browser timings, as one table

@@ -1,19 +1,18 @@
 //! Idempotent installation of everything the build and the tests need.
 //!
-//! Versions that work together here (see DEVELOPERS.md): trunk 0.21.14 (0.22 needs a
-//! newer rustc), wasm-bindgen-cli at exactly the version Cargo.lock resolves (installed
-//! without `--locked`), wasm-opt from the npm package `binaryen@132.0.0` (Debian's
-//! binaryen 108 produces broken modules), Debian's chromium and chromium-driver.
-//! Nothing here downloads a prebuilt binary from outside the package registries.
+//! What the build needs besides xtask itself: the wasm32 standard library (rustup),
+//! wasm-opt from the npm package `binaryen@132.0.0` (Debian's binaryen 108 produces broken
+//! modules), and for the browser tests Debian's chromium and chromium-driver. wasm-bindgen
+//! runs inside xtask as a library (`dist::bindgen`), so there is no bundler or
+//! wasm-bindgen-cli to compile. Nothing here downloads a prebuilt binary from outside the
+//! package registries.
 
 use crate::shell::{self, root, version_of};
 use std::path::PathBuf;
 use std::process::Command;
 use std::time::Instant;
 
-/// The trunk release that builds with the pinned toolchain.
-pub const TRUNK_VERSION: &str = "0.21.14";
-/// The binaryen (wasm-opt) release installed from npm; must match Trunk.toml `[tools] wasm_opt`.
+/// The binaryen (wasm-opt) release installed from npm.
 pub const BINARYEN_VERSION: &str = "132.0.0";
 const WASM_TARGET: &str = "wasm32-unknown-unknown";
 
@@ -46,31 +45,9 @@ fn binaryen_bin_dir() -> PathBuf {
         .join(".bin")
 }
 
-/// PATH with the cargo bin folder and the wasm-opt folder first, for trunk.
-pub fn tool_path() -> std::ffi::OsString {
-    let mut dirs = vec![binaryen_bin_dir(), cargo_bin_dir()];
-    if let Some(path) = std::env::var_os("PATH") {
-        dirs.extend(std::env::split_paths(&path));
-    }
-    std::env::join_paths(dirs).expect("PATH entries contain no separator")
-}
-
-/// The wasm-bindgen version Cargo.lock resolves; the CLI must match it exactly.
-pub fn locked_wasm_bindgen_version() -> Result<String, String> {
-    let lock_path = root().join("Cargo.lock");
-    let lock = std::fs::read_to_string(&lock_path)
-        .map_err(|e| format!("cannot read {}: {e}", lock_path.display()))?;
-    let mut lines = lock.lines();
-    while let Some(line) = lines.next() {
-        if line.trim() == "name = \"wasm-bindgen\""
-            && let Some(v) = lines
-                .next()
-                .and_then(|l| l.trim().strip_prefix("version = \""))
-        {
-            return Ok(v.trim_end_matches('"').to_string());
-        }
-    }
-    Err("Cargo.lock has no wasm-bindgen entry".into())
+/// The wasm-opt program `ensure_wasm_opt` installs.
+pub fn wasm_opt() -> PathBuf {
+    binaryen_bin_dir().join("wasm-opt")
 }
 
 fn announce(what: &str, how_long: &str) -> Instant {
@@ -100,41 +77,9 @@ pub fn ensure_wasm_target() -> Result<(), String> {
     Ok(())
 }
 
-/// trunk, the wasm bundler, at the version that builds with this toolchain.
-pub fn ensure_trunk() -> Result<(), String> {
-    let trunk = cargo_bin_dir().join("trunk");
-    if version_of(&trunk, "--version").as_deref() == Some(&format!("trunk {TRUNK_VERSION}")) {
-        return Ok(());
-    }
-    let t = announce(
-        &format!("trunk {TRUNK_VERSION} from crates.io"),
-        "about 7 minutes",
-    );
-    shell::run(shell::cargo().args(["install", "trunk", "--locked", "--version", TRUNK_VERSION]))?;
-    done("trunk", t);
-    Ok(())
-}
-
-/// wasm-bindgen-cli at exactly the version in Cargo.lock (without `--locked`:
-/// its own lock pins a crate version the registry does not serve).
-pub fn ensure_wasm_bindgen() -> Result<(), String> {
-    let version = locked_wasm_bindgen_version()?;
-    let bin = cargo_bin_dir().join("wasm-bindgen");
-    if version_of(&bin, "--version").as_deref() == Some(&format!("wasm-bindgen {version}")) {
-        return Ok(());
-    }
-    let t = announce(
-        &format!("wasm-bindgen-cli {version} from crates.io"),
-        "about 4 minutes",
-    );
-    shell::run(shell::cargo().args(["install", "wasm-bindgen-cli", "--version", &version]))?;
-    done("wasm-bindgen-cli", t);
-    Ok(())
-}
-
 /// wasm-opt from the npm package binaryen (never Debian's binaryen 108).
 pub fn ensure_wasm_opt() -> Result<(), String> {
-    let bin = binaryen_bin_dir().join("wasm-opt");
+    let bin = wasm_opt();
     let major = BINARYEN_VERSION.split('.').next().unwrap_or_default();
     if version_of(&bin, "--version").is_some_and(|v| v.contains(&format!("version {major}"))) {
         return Ok(());
@@ -180,24 +125,10 @@ pub fn ensure_chromium() -> Result<(), String> {
     Ok(())
 }
 
-/// Everything `trunk build` needs, then the crates it builds offline.
+/// Everything the app build needs (`dist`).
 pub fn ensure_build_tools() -> Result<(), String> {
     ensure_wasm_target()?;
-    ensure_wasm_opt()?;
-    ensure_trunk()?;
-    ensure_wasm_bindgen()?;
-    // trunk builds offline (Trunk.toml), so every crate must be in the local registry first.
-    shell::run(shell::cargo().args(["fetch", "--locked"]))
-}
-
-/// A trunk command with the installed tools first on PATH.
-pub fn trunk() -> Command {
-    let mut cmd = Command::new(cargo_bin_dir().join("trunk"));
-    cmd.current_dir(root())
-        .env("PATH", tool_path())
-        .env("TRUNK_SKIP_VERSION_CHECK", "true")
-        .env("BANDGAUGE_BUILD_COMMIT", build_commit());
-    cmd
+    ensure_wasm_opt()
 }
 
 /// The commit the app is built from, as the report prints it: the short hash, with
@@ -223,5 +154,41 @@ pub fn build_commit() -> String {
             }
         }
         _ => "unknown".to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::shell::root;
+
+    /// The version Cargo.lock resolves for the package `name` (its first entry).
+    fn locked_version(name: &str) -> Result<String, String> {
+        let lock_path = root().join("Cargo.lock");
+        let lock = std::fs::read_to_string(&lock_path)
+            .map_err(|e| format!("cannot read {}: {e}", lock_path.display()))?;
+        let mut lines = lock.lines();
+        let wanted = format!("name = \"{name}\"");
+        while let Some(line) = lines.next() {
+            if line.trim() == wanted
+                && let Some(v) = lines
+                    .next()
+                    .and_then(|l| l.trim().strip_prefix("version = \""))
+            {
+                return Ok(v.trim_end_matches('"').to_string());
+            }
+        }
+        Err(format!("Cargo.lock has no {name} entry"))
+    }
+
+    #[test]
+    fn the_bindgen_library_matches_the_apps_wasm_bindgen() {
+        // The glue and the module's custom section must come from one wasm-bindgen version:
+        // wasm-bindgen refuses a module built against another (common practice, no source).
+        let app = locked_version("wasm-bindgen").unwrap();
+        let step = locked_version("wasm-bindgen-cli-support").unwrap();
+        assert_eq!(
+            app, step,
+            "bump wasm-bindgen-cli-support in xtask/Cargo.toml with wasm-bindgen"
+        );
     }
 }
