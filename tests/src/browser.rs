@@ -2,6 +2,7 @@
 //! chromedriver process on a free port, and a headless Chromium session with the
 //! flags this machine needs. Every session is closed even when the test body fails.
 
+use crate::static_files;
 use fantoccini::{Client, ClientBuilder, Locator};
 use hyper_util::client::legacy::connect::HttpConnector;
 use std::future::Future;
@@ -43,20 +44,6 @@ fn free_port() -> u16 {
         .expect("a free loopback port")
 }
 
-fn mime_of(path: &Path) -> &'static str {
-    match path.extension().and_then(|e| e.to_str()).unwrap_or("") {
-        "html" => "text/html; charset=utf-8",
-        "js" => "text/javascript",
-        "wasm" => "application/wasm",
-        "css" => "text/css",
-        "json" | "webmanifest" => "application/json",
-        "svg" => "image/svg+xml",
-        "png" => "image/png",
-        "csv" => "text/csv",
-        _ => "application/octet-stream",
-    }
-}
-
 /// A static file server on 127.0.0.1 serving one folder; stops when dropped.
 pub struct StaticServer {
     server: Arc<tiny_http::Server>,
@@ -81,29 +68,9 @@ impl StaticServer {
         let (srv, root, log) = (server.clone(), root.to_path_buf(), requests.clone());
         let thread = std::thread::spawn(move || {
             for request in srv.incoming_requests() {
-                let raw = request
-                    .url()
-                    .split(['?', '#'])
-                    .next()
-                    .unwrap_or("/")
-                    .to_string();
+                let raw = static_files::request_path(request.url()).to_string();
                 log.lock().expect("request log").push(raw.clone());
-                let rel = raw.trim_start_matches('/');
-                let rel = if rel.is_empty() { "index.html" } else { rel };
-                let path = root.join(rel);
-                let safe = !rel.split('/').any(|p| p == "..");
-                let response = match std::fs::read(&path) {
-                    Ok(bytes) if safe => {
-                        let header = tiny_http::Header::from_bytes("Content-Type", mime_of(&path))
-                            .expect("valid header");
-                        tiny_http::Response::from_data(bytes)
-                            .with_header(header)
-                            .boxed()
-                    }
-                    _ => tiny_http::Response::from_string("not found")
-                        .with_status_code(404)
-                        .boxed(),
-                };
+                let response = static_files::response(&root, &raw);
                 let _ = request.respond(response);
             }
         });
@@ -370,14 +337,11 @@ fn serve_one(mut stream: std::net::TcpStream, root: &Path, log: &std::sync::Mute
     let head = String::from_utf8_lossy(&head);
     let mut words = head.lines().next().unwrap_or("").split_whitespace();
     let (method, target) = (words.next().unwrap_or(""), words.next().unwrap_or("/"));
-    let raw = target.split(['?', '#']).next().unwrap_or("/").to_string();
+    let raw = static_files::request_path(target).to_string();
     log.lock().expect("request log").push(raw.clone());
-    let rel = raw.trim_start_matches('/');
-    let rel = if rel.is_empty() { "index.html" } else { rel };
-    let path = root.join(rel);
-    let safe = !rel.split('/').any(|p| p == "..");
-    let (status, mime, body) = match std::fs::read(&path) {
-        Ok(bytes) if safe && method == "GET" => ("200 OK", mime_of(&path), bytes),
+    let file = static_files::file_for(root, &raw);
+    let (status, mime, body) = match file.as_ref().map(|f| (std::fs::read(f), f)) {
+        Some((Ok(bytes), f)) if method == "GET" => ("200 OK", static_files::media_type(f), bytes),
         _ => ("404 Not Found", "text/plain", b"not found".to_vec()),
     };
     let header = format!(

@@ -2,4 +2,5 @@
 
 pub mod browser;
 pub mod lot_rows;
+pub mod static_files;
 pub mod ui;

@@ -5,6 +5,10 @@
 //! `--release`) into two folders under `target/serve/` in turn, so a failed rebuild leaves
 //! the last good page served.
 
+// The same file answering as the browser tests' servers.
+#[path = "../../tests/src/static_files.rs"]
+mod static_files;
+
 use crate::dist::{self, Profile};
 use crate::shell::root;
 use crate::tools;
@@ -133,41 +137,8 @@ fn newest_change() -> SystemTime {
 
 /// Answers one request from `folder`: the file, `index.html` for a folder, or 404.
 fn respond(folder: &Path, request: tiny_http::Request) {
-    let path = request
-        .url()
-        .split(['?', '#'])
-        .next()
-        .unwrap_or("/")
-        .to_string();
-    let relative = path.trim_start_matches('/');
-    let safe = !relative.split('/').any(|part| part == "..");
-    let mut file = folder.join(relative);
-    if file.is_dir() {
-        file = file.join("index.html");
-    }
-    let response = match std::fs::read(&file) {
-        Ok(bytes) if safe => {
-            let header = tiny_http::Header::from_bytes("Content-Type", content_type(&file))
-                .expect("a valid header");
-            tiny_http::Response::from_data(bytes).with_header(header)
-        }
-        _ => tiny_http::Response::from_data(b"not found".to_vec()).with_status_code(404),
-    };
-    let _ = request.respond(response);
-}
-
-/// The media type of a built file, by its extension.
-fn content_type(file: &Path) -> &'static str {
-    match file.extension().and_then(|e| e.to_str()).unwrap_or("") {
-        "html" => "text/html; charset=utf-8",
-        "js" => "text/javascript; charset=utf-8",
-        "wasm" => "application/wasm",
-        "css" => "text/css; charset=utf-8",
-        "svg" => "image/svg+xml",
-        "webmanifest" => "application/manifest+json",
-        "json" => "application/json",
-        _ => "application/octet-stream",
-    }
+    let path = static_files::request_path(request.url()).to_string();
+    let _ = request.respond(static_files::response(folder, &path));
 }
 
 #[cfg(test)]
@@ -195,12 +166,17 @@ mod tests {
     }
 
     #[test]
-    fn wasm_is_served_as_wasm() {
+    fn wasm_is_served_as_wasm_and_nothing_outside_the_folder() {
         // Source: WebAssembly Web API, `application/wasm` for streaming compilation, from memory.
-        assert_eq!(content_type(Path::new("a_bg.wasm")), "application/wasm");
+        let media = static_files::media_type;
+        assert_eq!(media(Path::new("a_bg.wasm")), "application/wasm");
+        assert_eq!(media(Path::new("index.html")), "text/html; charset=utf-8");
+        let folder = Path::new("/srv/page");
+        assert_eq!(static_files::file_for(folder, "/../etc/passwd"), None);
         assert_eq!(
-            content_type(Path::new("index.html")),
-            "text/html; charset=utf-8"
+            static_files::file_for(folder, "/"),
+            Some(folder.join("index.html"))
         );
+        assert_eq!(static_files::request_path("/a.js?v=1#x"), "/a.js");
     }
 }
