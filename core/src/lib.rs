@@ -12,6 +12,7 @@ pub mod constants;
 pub mod dos;
 pub mod empirical;
 pub mod fermi_dirac;
+pub mod hall;
 pub mod intrinsic;
 pub mod ionization;
 pub mod lots;
@@ -23,6 +24,7 @@ pub mod resistivity;
 pub mod sweep;
 pub mod uncertainty;
 pub mod units;
+pub mod vdp;
 
 pub use bgn::BgnModel;
 pub use intrinsic::IntrinsicModel;

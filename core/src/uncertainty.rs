@@ -5,6 +5,8 @@
 //! - Inputs: [`Tolerance`] (absolute or relative half-width), [`Measured`] (value and optional
 //!   tolerance), [`MeasuredInput`] (a resistivity, a density, or a probe reading V, I, s, t, d).
 //! - [`UncertaintyRequest`] and [`propagate`] -> [`Interval`] with its [`Contribution`]s.
+//! - [`one_at_a_time`] -> [`OutputInterval`]s: the same first-order method for any chain of
+//!   positive outputs (the van der Pauw and Hall analysis uses it for R_s, n and mu).
 //! - [`UncertaintyError`].
 //!
 //! # Method
@@ -448,6 +450,108 @@ pub fn propagate(request: &UncertaintyRequest) -> Result<Interval, UncertaintyEr
         method: METHOD,
         notes,
     })
+}
+
+/// The interval on one output of [`one_at_a_time`].
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct OutputInterval {
+    /// Output name, e.g. "sheet_resistance_ohm_sq".
+    pub quantity: &'static str,
+    /// Value at the inputs as given.
+    pub value: f64,
+    /// value e^-d.
+    pub low: f64,
+    /// value e^d.
+    pub high: f64,
+    /// d = sqrt(sum d_i^2), relative.
+    pub relative_half_width: f64,
+    /// Each input's share, in input order (inputs without a half-width are left out).
+    pub contributions: Vec<Contribution>,
+    /// Source of the largest contribution ("none" if all are zero).
+    pub dominant: String,
+}
+
+/// Intervals on positive outputs from the half-widths of the inputs, one input at a time.
+///
+/// # Formula
+/// For input x_i with half-width u_i, each output y_k is evaluated at x_i - u_i and x_i + u_i
+/// with the other inputs at their values; d_ik = |ln y_k(x_i + u_i) - ln y_k(x_i - u_i)|/2,
+/// d_k = sqrt(sum_i d_ik^2), [low, high] = [y_k e^-d_k, y_k e^d_k]. Outputs enter by their
+/// magnitude.
+///
+/// # Validity
+/// First order in each input, independent inputs (as [`propagate`]).
+///
+/// # References
+/// JCGM 100:2008 (GUM), section 5.1.
+///
+/// # Errors
+/// [`UncertaintyError::InvalidTolerance`], [`UncertaintyError::ToleranceTooLarge`] (converted
+/// into `E`), and whatever `evaluate` returns.
+pub fn one_at_a_time<E: From<UncertaintyError>>(
+    inputs: &[(&'static str, Measured)],
+    outputs: &[&'static str],
+    evaluate: impl Fn(&[f64]) -> Result<Vec<f64>, E>,
+) -> Result<Vec<OutputInterval>, E> {
+    let nominal: Vec<f64> = inputs.iter().map(|(_, m)| m.value).collect();
+    let values = evaluate(&nominal)?;
+    let mut contributions: Vec<Vec<Contribution>> = vec![Vec::new(); outputs.len()];
+    for (index, (name, measured)) in inputs.iter().enumerate() {
+        let u = measured.half_width(name)?;
+        if u == 0.0 {
+            continue;
+        }
+        if u >= measured.value.abs() {
+            return Err(UncertaintyError::ToleranceTooLarge {
+                field: name,
+                value: measured.value,
+                half_width: u,
+            }
+            .into());
+        }
+        let mut point = nominal.clone();
+        point[index] = measured.value - u;
+        let low = evaluate(&point)?;
+        point[index] = measured.value + u;
+        let high = evaluate(&point)?;
+        for (k, list) in contributions.iter_mut().enumerate() {
+            let (l, h) = (low[k].abs(), high[k].abs());
+            list.push(Contribution {
+                source: (*name).to_string(),
+                relative_half_width: 0.5 * (h.ln() - l.ln()).abs(),
+                low: l.min(h),
+                high: l.max(h),
+                note: None,
+            });
+        }
+    }
+    Ok(outputs
+        .iter()
+        .zip(values)
+        .zip(contributions)
+        .map(|((quantity, value), contributions)| {
+            let d = contributions
+                .iter()
+                .map(|c| c.relative_half_width * c.relative_half_width)
+                .sum::<f64>()
+                .sqrt();
+            let dominant = contributions
+                .iter()
+                .filter(|c| c.relative_half_width > 0.0)
+                .max_by(|a, b| a.relative_half_width.total_cmp(&b.relative_half_width))
+                .map_or_else(|| "none".to_string(), |c| c.source.clone());
+            let magnitude = value.abs();
+            OutputInterval {
+                quantity,
+                value,
+                low: magnitude * (-d).exp(),
+                high: magnitude * d.exp(),
+                relative_half_width: d,
+                contributions,
+                dominant,
+            }
+        })
+        .collect())
 }
 
 /// The converted output at `p` and the resistivity at the sample temperature (the input one for

@@ -44,11 +44,15 @@ pub enum QuantityKind {
     Current,
     /// Sheet resistance; default unit ohm/sq.
     SheetResistance,
+    /// Four-terminal resistance V/I of a van der Pauw or Hall structure; default unit ohm.
+    Resistance,
+    /// Magnetic flux density (the field of a Hall measurement); default unit tesla.
+    MagneticField,
 }
 
 impl QuantityKind {
     /// Every kind, in a stable order (for listings and tests).
-    pub const ALL: [QuantityKind; 7] = [
+    pub const ALL: [QuantityKind; 9] = [
         QuantityKind::Density,
         QuantityKind::Resistivity,
         QuantityKind::Length,
@@ -56,6 +60,8 @@ impl QuantityKind {
         QuantityKind::Voltage,
         QuantityKind::Current,
         QuantityKind::SheetResistance,
+        QuantityKind::Resistance,
+        QuantityKind::MagneticField,
     ];
 
     /// Lower-case name used in messages, e.g. "density".
@@ -68,6 +74,8 @@ impl QuantityKind {
             QuantityKind::Voltage => "voltage",
             QuantityKind::Current => "current",
             QuantityKind::SheetResistance => "sheet resistance",
+            QuantityKind::Resistance => "resistance",
+            QuantityKind::MagneticField => "magnetic field",
         }
     }
 
@@ -81,6 +89,8 @@ impl QuantityKind {
             QuantityKind::Voltage => VOLTAGE_UNITS,
             QuantityKind::Current => CURRENT_UNITS,
             QuantityKind::SheetResistance => SHEET_RESISTANCE_UNITS,
+            QuantityKind::Resistance => RESISTANCE_UNITS,
+            QuantityKind::MagneticField => MAGNETIC_FIELD_UNITS,
         }
     }
 
@@ -94,6 +104,8 @@ impl QuantityKind {
             QuantityKind::Voltage => "0.0125 or 12.5 mV",
             QuantityKind::Current => "0.001 or 1 mA",
             QuantityKind::SheetResistance => "45.3 or 45.3 ohm/sq",
+            QuantityKind::Resistance => "10.2 or 10.2 ohm",
+            QuantityKind::MagneticField => "0.5 or 5000 G",
         }
     }
 
@@ -243,6 +255,23 @@ const CURRENT_UNITS: &[Unit] = &[
 const SHEET_RESISTANCE_UNITS: &[Unit] = &[
     Unit::scaled("ohm/sq", &["ohm/□"], 0),
     Unit::scaled("kohm/sq", &["kohm/□"], 3),
+];
+
+// "Ω" and "ohms" are folded onto "ohm" by `normalise_unit`.
+const RESISTANCE_UNITS: &[Unit] = &[
+    Unit::scaled("ohm", &[], 0),
+    Unit::scaled("mohm", &[], -3),
+    Unit::scaled("kohm", &[], 3),
+    Unit::scaled("Mohm", &[], 6),
+];
+
+// 1 G = 1e-4 T exactly (CGS-Gaussian unit of flux density; SI Brochure, 9th ed. (2019),
+// table 9, from memory).
+const MAGNETIC_FIELD_UNITS: &[Unit] = &[
+    Unit::scaled("T", &["tesla"], 0),
+    Unit::scaled("mT", &[], -3),
+    Unit::scaled("G", &["gauss", "Gs"], -4),
+    Unit::scaled("kG", &["kgauss"], -1),
 ];
 
 /// Why a text could not be read as a quantity. Every message quotes the text given
@@ -505,7 +534,7 @@ fn normalise_unit(unit_text: &str, kind: QuantityKind) -> String {
     let mut text = unit_text.replace('\u{3bc}', "\u{b5}");
     if matches!(
         kind,
-        QuantityKind::Resistivity | QuantityKind::SheetResistance
+        QuantityKind::Resistivity | QuantityKind::SheetResistance | QuantityKind::Resistance
     ) {
         // U+2126 OHM SIGN and U+03A9 GREEK CAPITAL OMEGA.
         text = text
@@ -786,6 +815,33 @@ mod tests {
         check("45.3 Ω/□", QuantityKind::SheetResistance, 45.3);
         check("45.3 ohms/square", QuantityKind::SheetResistance, 45.3);
         check("1.2 kohm/sq", QuantityKind::SheetResistance, 1200.0);
+        check("10.2", QuantityKind::Resistance, 10.2);
+        check("10.2 ohm", QuantityKind::Resistance, 10.2);
+        check("10.2 Ω", QuantityKind::Resistance, 10.2);
+        check("10.2 ohms", QuantityKind::Resistance, 10.2);
+        check("850 mohm", QuantityKind::Resistance, 0.85);
+        check("1.5 kohm", QuantityKind::Resistance, 1500.0);
+        check("2 Mohm", QuantityKind::Resistance, 2e6);
+    }
+
+    #[test]
+    fn magnetic_field_units() {
+        use QuantityKind::MagneticField as B;
+        check("0.5", B, 0.5);
+        check("0.5 T", B, 0.5);
+        check("500 mT", B, 0.5);
+        // Source: 1 G = 1e-4 T (definition of the gauss), so 5000 G = 0.5 T.
+        check("5000 G", B, 0.5);
+        check("5000 gauss", B, 0.5);
+        check("5 kG", B, 0.5);
+        check_error(
+            "0.5 Wb",
+            B,
+            r#""0.5 Wb": "Wb" is not an accepted magnetic field unit; allowed: T (default), tesla, mT, G, gauss, Gs, kG, kgauss"#,
+        );
+        // A field is not a resistance: "ohm" is refused with the list of field units.
+        assert!(parse_quantity("5 ohm", B).is_err());
+        assert!(parse_quantity("5 T", QuantityKind::Resistance).is_err());
     }
 
     #[test]

@@ -1,5 +1,5 @@
-//! `cargo xtask bench`: criterion benchmarks of the core, the same neutrality problem
-//! scripted in Python with SciPy for a speed ratio, the release wasm size, and the
+//! `cargo xtask bench`: criterion benchmarks of the core, the same neutrality and van der
+//! Pauw problems scripted in Python with SciPy for speed ratios, the release wasm size, and the
 //! in-browser timings (headless Chromium: input to charts redrawn, a 100,000-row lot file
 //! read), and the CLI streaming 100,000 and 10,000,000 lot rows with its peak memory, printed
 //! as one table.
@@ -12,9 +12,20 @@ mod streaming;
 use crate::shell::{self, root};
 use std::process::Command;
 
-/// The criterion benchmark whose median is compared with the Python script.
-const SOLVE_BENCH: &str = "neutrality/solve_si_p1e15_300k";
-const PYTHON_SCRIPT: &str = "core/benches/python/neutrality_scipy.py";
+/// Each criterion benchmark compared with a Python script of the same problem: (criterion
+/// name, script, what the script does).
+const PYTHON_COMPARISONS: [(&str, &str, &str); 2] = [
+    (
+        "neutrality/solve_si_p1e15_300k",
+        "core/benches/python/neutrality_scipy.py",
+        "neutrality solve",
+    ),
+    (
+        "vdp/solve_ratio_1p5",
+        "core/benches/python/vdp_scipy.py",
+        "van der Pauw solve",
+    ),
+];
 
 pub fn run(_args: &[String]) -> Result<(), String> {
     shell::run(shell::cargo().args(["bench", "-p", "bandgauge-core"]))?;
@@ -26,26 +37,25 @@ pub fn run(_args: &[String]) -> Result<(), String> {
         .iter()
         .map(|(name, ns)| (name.clone(), format_ns(*ns)))
         .collect();
-    let solve_ns = medians
-        .iter()
-        .find(|(n, _)| n == SOLVE_BENCH)
-        .map(|(_, ns)| *ns);
-    match (python_us_per_solve(), solve_ns) {
-        (Ok(py_us), Some(ns)) => {
-            table.push((
-                "python scipy brentq, same problem".into(),
-                format_ns(py_us * 1e3),
-            ));
-            table.push((
-                "speed ratio python / bandgauge".into(),
-                format!("{:.0}x", py_us * 1e3 / ns),
-            ));
+    for (bench, script, what) in PYTHON_COMPARISONS {
+        let ns = medians.iter().find(|(n, _)| n == bench).map(|(_, ns)| *ns);
+        match (python_us_per_solve(script), ns) {
+            (Ok(py_us), Some(ns)) => {
+                table.push((
+                    format!("python scipy brentq, same {what}"),
+                    format_ns(py_us * 1e3),
+                ));
+                table.push((
+                    format!("speed ratio python / bandgauge, {what}"),
+                    format!("{:.0}x", py_us * 1e3 / ns),
+                ));
+            }
+            (Err(e), _) => table.push((format!("python {what}"), format!("not run: {e}"))),
+            (_, None) => table.push((
+                format!("python {what}"),
+                format!("not run: no criterion result named {bench}"),
+            )),
         }
-        (Err(e), _) => table.push(("python comparison".into(), format!("not run: {e}"))),
-        (_, None) => table.push((
-            "python comparison".into(),
-            format!("not run: no criterion result named {SOLVE_BENCH}"),
-        )),
     }
     let streamed = streaming::measure().map(|runs| {
         for run in runs {
@@ -153,8 +163,8 @@ fn gzip_len(bytes: &[u8]) -> Result<usize, String> {
 
 /// Runs the Python reference script (installing SciPy and mpmath from PyPI when missing)
 /// and reads its `python_us_per_solve=<x>` line.
-fn python_us_per_solve() -> Result<f64, String> {
-    let script = root().join(PYTHON_SCRIPT);
+fn python_us_per_solve(script_path: &str) -> Result<f64, String> {
+    let script = root().join(script_path);
     if !script.exists() {
         return Err(format!("{} is missing", script.display()));
     }
@@ -174,7 +184,7 @@ fn python_us_per_solve() -> Result<f64, String> {
     text.lines()
         .find_map(|l| l.trim().strip_prefix("python_us_per_solve="))
         .and_then(|v| v.trim().parse().ok())
-        .ok_or_else(|| format!("{PYTHON_SCRIPT} printed no python_us_per_solve line: {text}"))
+        .ok_or_else(|| format!("{script_path} printed no python_us_per_solve line: {text}"))
 }
 
 /// Finds `<bench>/new/estimates.json` files and reads their median point estimate.
