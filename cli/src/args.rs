@@ -35,6 +35,9 @@ pub enum Command {
     /// Four-point-probe reading (voltage and current) to sheet resistance and
     /// resistivity, with thickness, wafer-size and temperature corrections.
     Probe(ProbeArgs),
+    /// Van der Pauw structure: four-terminal resistances to sheet resistance and, with a
+    /// Hall voltage, carrier type, density and mobility checked against the doping conversion.
+    Hall(HallArgs),
     /// Wafer-lot files: convert every site, summarise per lot and wafer, judge against a
     /// spec window, and test whether lots differ.
     Lots(crate::lots::LotsArgs),
@@ -262,6 +265,127 @@ pub struct ProbeArgs {
         requires = "dopant"
     )]
     pub temperature_uncertainty: Option<String>,
+
+    /// Write one JSON object instead of the table.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// `bandgauge hall`.
+#[derive(Debug, Args)]
+#[command(
+    after_help = "Sign convention: contacts 1-4 counter-clockwise seen with the field \
+                  pointing at you, current into 1 and out of 3, Hall voltage V2 - V4: positive \
+                  means holes (p-type), negative electrons (n-type)."
+)]
+pub struct HallArgs {
+    /// R_A = V/I of the first configuration (current along one edge, voltage across the
+    /// opposite edge): 10.2, 10.2ohm, 850mohm.
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    pub ra: String,
+
+    /// R_A read with the current reversed (V/I, > 0).
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    pub ra_reversed: Option<String>,
+
+    /// R_A read with current and voltage contacts swapped (the reciprocal reading).
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    pub ra_reciprocal: Option<String>,
+
+    /// The reciprocal R_A reading with the current reversed.
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    pub ra_reciprocal_reversed: Option<String>,
+
+    /// R_B = V/I of the configuration turned by one contact.
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    pub rb: String,
+
+    /// R_B read with the current reversed.
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    pub rb_reversed: Option<String>,
+
+    /// R_B read with current and voltage contacts swapped.
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    pub rb_reciprocal: Option<String>,
+
+    /// The reciprocal R_B reading with the current reversed.
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
+    pub rb_reciprocal_reversed: Option<String>,
+
+    /// Layer thickness: 2um, 0.0002. Gives the resistivity and the volume carrier density, and
+    /// is needed for the cross-check.
+    #[arg(long, value_name = "T", allow_hyphen_values = true)]
+    pub thickness: Option<String>,
+
+    /// Net Hall voltage V2 - V4, already averaged over field and current reversal: -6.25mV.
+    #[arg(
+        long,
+        value_name = "V",
+        allow_hyphen_values = true,
+        conflicts_with = "hall_readings"
+    )]
+    pub hall_voltage: Option<String>,
+
+    /// The four Hall readings V2 - V4 at (+B,+I), (+B,-I), (-B,+I), (-B,-I), comma-separated:
+    /// 7.1mV,-2.9mV,3.1mV,-6.9mV. Averaged as (V1 - V2 - V3 + V4)/4.
+    #[arg(long, value_name = "V1,V2,V3,V4", allow_hyphen_values = true)]
+    pub hall_readings: Option<String>,
+
+    /// Current of the Hall measurement (magnitude): 100uA.
+    #[arg(long, value_name = "I", allow_hyphen_values = true)]
+    pub current: Option<String>,
+
+    /// Magnetic field (magnitude): 0.5T, 500mT or 5000G.
+    #[arg(long, value_name = "B", allow_hyphen_values = true)]
+    pub field: Option<String>,
+
+    /// Hall scattering factor r_H: unity (default), acoustic-phonon (3 pi/8),
+    /// ionized-impurity (315 pi/512), or a number between 0.1 and 10.
+    #[arg(long, value_name = "R_H")]
+    pub hall_factor: Option<String>,
+
+    /// Material of the layer, for the cross-check.
+    #[arg(long, value_name = "ID", default_value = "si")]
+    pub material: String,
+
+    /// Dopant of the layer for the cross-check (default: the material's first dopant of the
+    /// type the Hall voltage shows that a conversion model covers, e.g. P or B in silicon).
+    #[arg(long, value_name = "SPECIES")]
+    pub dopant: Option<String>,
+
+    /// Temperature of the measurement, for the cross-check: 296.15, 300K or 23C.
+    #[arg(
+        long,
+        value_name = "T",
+        allow_hyphen_values = true,
+        default_value = "296.15"
+    )]
+    pub temperature: String,
+
+    /// Uncertainty of each of R_A and R_B (after averaging): 0.5% or an amount such as 0.05ohm.
+    #[arg(long, value_name = "SPREAD", allow_hyphen_values = true)]
+    pub resistance_uncertainty: Option<String>,
+
+    /// Uncertainty of the thickness: 2% or an amount such as 0.05um.
+    #[arg(
+        long,
+        value_name = "SPREAD",
+        allow_hyphen_values = true,
+        requires = "thickness"
+    )]
+    pub thickness_uncertainty: Option<String>,
+
+    /// Uncertainty of the net Hall voltage: 1% or an amount such as 20uV.
+    #[arg(long, value_name = "SPREAD", allow_hyphen_values = true)]
+    pub hall_voltage_uncertainty: Option<String>,
+
+    /// Uncertainty of the current: 0.1% or an amount such as 0.1uA.
+    #[arg(long, value_name = "SPREAD", allow_hyphen_values = true)]
+    pub current_uncertainty: Option<String>,
+
+    /// Uncertainty of the field: 1% or an amount such as 5mT.
+    #[arg(long, value_name = "SPREAD", allow_hyphen_values = true)]
+    pub field_uncertainty: Option<String>,
 
     /// Write one JSON object instead of the table.
     #[arg(long)]

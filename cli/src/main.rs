@@ -7,6 +7,7 @@ mod args;
 mod carriers;
 mod convert;
 mod error;
+mod hall;
 mod lots;
 mod materials_cmd;
 mod output;
@@ -22,6 +23,7 @@ use crate::args::{Cli, Command};
 use crate::carriers::CarriersRequest;
 use crate::convert::ConvertRequest;
 use crate::error::{CliError, EXIT_BAD_INPUT, EXIT_FAILURE};
+use crate::hall::HallRequest;
 use crate::probe::ProbeRequest;
 
 fn main() -> ExitCode {
@@ -60,6 +62,7 @@ fn run(command: &Command, out: &mut impl Write) -> Result<(), CliError> {
         Command::Materials(args) => materials_cmd::run(args.json, out),
         Command::Convert(args) => convert::run(&ConvertRequest::from_args(args)?, out),
         Command::Probe(args) => probe::run(&ProbeRequest::from_args(args)?, out),
+        Command::Hall(args) => hall::run(&HallRequest::from_args(args)?, out),
         Command::Lots(_) => unreachable!("`lots` is dispatched in main"),
     }
 }

@@ -89,7 +89,7 @@ impl fmt::Display for VdpError {
             ),
             VdpError::NoSolution { ratio } => write!(
                 f,
-                "r_a_ohm / r_b_ohm: the ratio {ratio:e} has no van der Pauw solution in \
+                "r_a_ohm: the ratio R_A/R_B = {ratio:e} has no van der Pauw solution in \
                  floating point; give two resistances whose ratio is between 1e-300 and 1e300 \
                  (a real structure gives a ratio near 1)"
             ),

@@ -529,6 +529,72 @@ catalogue! {
 }
 
 // ---------------------------------------------------------------------------------------------
+// hall (van der Pauw and Hall)
+// ---------------------------------------------------------------------------------------------
+
+/// Allowed units of the van der Pauw and Hall values, as the messages list them.
+const RESISTANCE_UNITS: &str = "ohm (default), mohm, kohm, Mohm";
+const FIELD_UNITS: &str = "T (default), tesla, mT, G, gauss, Gs, kG, kgauss";
+
+catalogue! {
+    hall_resistance_zero: ["hall", "--ra", "0", "--rb", "10"] => REFUSED,
+        "error: --ra: \"0\" is not allowed; give a resistance > 0 ohm\n";
+    hall_resistance_negative: ["hall", "--ra", "10", "--rb", "-5ohm"] => REFUSED,
+        "error: --rb: \"-5ohm\" is not allowed; give a resistance > 0 ohm\n";
+    hall_reversed_reading_negative: ["hall", "--ra", "10", "--ra-reversed", "-10", "--rb", "10"] => REFUSED,
+        "error: --ra-reversed: \"-10\" is not allowed; give a resistance > 0 ohm\n";
+    hall_ratio_without_solution: ["hall", "--ra", "1e300", "--rb", "1e-300"] => REFUSED,
+        "error: --ra: the ratio R_A/R_B = inf has no van der Pauw solution in floating point; give \
+         two resistances whose ratio is between 1e-300 and 1e300 (a real structure gives a ratio \
+         near 1)\n";
+    hall_resistance_in_a_field_unit: ["hall", "--ra", "10T", "--rb", "10"] => REFUSED,
+        format!(
+            "error: --ra: \"10T\": \"T\" is not an accepted resistance unit; allowed: \
+             {RESISTANCE_UNITS}\n"
+        );
+    hall_field_in_a_resistance_unit: ["hall", "--ra", "10", "--rb", "10", "--hall-voltage", "-1mV", "--current", "1mA", "--field", "5000ohm"] => REFUSED,
+        format!(
+            "error: --field: \"5000ohm\": \"ohm\" is not an accepted magnetic field unit; allowed: \
+             {FIELD_UNITS}\n"
+        );
+    hall_voltage_without_field: ["hall", "--ra", "10", "--rb", "10", "--hall-voltage", "-1mV", "--current", "1mA"] => REFUSED,
+        "error: --field: the Hall analysis needs the magnetic field; give it, e.g. --field 0.5T or \
+         5000G\n";
+    hall_voltage_without_current: ["hall", "--ra", "10", "--rb", "10", "--hall-voltage", "-1mV", "--field", "0.5T"] => REFUSED,
+        "error: --current: the Hall analysis needs the current; give it, e.g. --current 100uA\n";
+    hall_field_without_voltage: ["hall", "--ra", "10", "--rb", "10", "--field", "0.5T"] => REFUSED,
+        "error: --field: given without a Hall voltage; give --hall-voltage or --hall-readings too, \
+         or leave it out for the sheet resistance only\n";
+    hall_field_zero: ["hall", "--ra", "10", "--rb", "10", "--hall-voltage", "1mV", "--current", "1mA", "--field", "0"] => REFUSED,
+        "error: --field: \"0\" is not allowed; give a magnetic field > 0 T\n";
+    hall_cross_check_without_thickness: ["hall", "--ra", "10", "--rb", "10", "--hall-voltage", "-1mV", "--current", "1mA", "--field", "0.5T", "--dopant", "P"] => REFUSED,
+        "error: --thickness: the cross-check with --dopant needs the layer thickness (the \
+         resistivity and the volume carrier density come from it); give it, e.g. --thickness 2um\n";
+    hall_three_readings: ["hall", "--ra", "10", "--rb", "10", "--hall-readings", "1mV,2mV,3mV", "--current", "1mA", "--field", "0.5T"] => REFUSED,
+        "error: --hall-readings: \"1mV,2mV,3mV\" has 3 value(s); give four voltages separated by \
+         commas, in the order (+B,+I), (+B,-I), (-B,+I), (-B,-I), e.g. 7.1mV,-2.9mV,3.1mV,-6.9mV\n";
+    hall_reading_in_a_current_unit: ["hall", "--ra", "10", "--rb", "10", "--hall-readings", "1mV,2mA,3mV,4mV", "--current", "1mA", "--field", "0.5T"] => REFUSED,
+        "error: --hall-readings: reading 2: \"2mA\": \"mA\" is not an accepted voltage unit; \
+         allowed: V (default), mV, uV, µV\n";
+    hall_readings_without_hall_signal: ["hall", "--ra", "10", "--rb", "10", "--hall-readings", "1mV,1mV,1mV,1mV", "--current", "1mA", "--field", "0.5T"] => REFUSED,
+        "error: --hall-readings: the net Hall voltage is 0, so neither the carrier type nor the \
+         density can be found; check the field, the current and the Hall contacts\n";
+    hall_readings_overflow: ["hall", "--ra", "10", "--rb", "10", "--hall-readings", "1e308,-1e308,-1e308,1e308", "--current", "1mA", "--field", "0.5T"] => REFUSED,
+        "error: --hall-readings: the readings' average overflows; check their units\n";
+    hall_factor_unknown: ["hall", "--ra", "10", "--rb", "10", "--hall-voltage", "1mV", "--current", "1mA", "--field", "0.5T", "--hall-factor", "phonon"] => REFUSED,
+        "error: --hall-factor: \"phonon\" is not known; give one of unity, acoustic-phonon, \
+         ionized-impurity or a number between 0.1 and 10\n";
+    hall_factor_out_of_range: ["hall", "--ra", "10", "--rb", "10", "--hall-voltage", "1mV", "--current", "1mA", "--field", "0.5T", "--hall-factor", "50"] => REFUSED,
+        "error: --hall-factor: 50 is not allowed; give r_H between 0.1 and 10 or one of unity, \
+         acoustic-phonon, ionized-impurity\n";
+    hall_thickness_uncertainty_reaches_the_value: ["hall", "--ra", "10", "--rb", "10", "--thickness", "2um", "--thickness-uncertainty", "3um"] => REFUSED,
+        "error: --thickness-uncertainty: 3.000e-4 cm reaches the value itself (2.000e-4 cm); give an \
+         uncertainty smaller than the value\n";
+    hall_unknown_dopant: ["hall", "--ra", "10", "--rb", "10", "--hall-voltage", "1mV", "--current", "1mA", "--field", "0.5T", "--thickness", "1um", "--dopant", "Xx"] => REFUSED,
+        "error: --dopant: \"Xx\" is not a known dopant of si; choose one of P, As, Sb, B, Al, Ga, In\n";
+}
+
+// ---------------------------------------------------------------------------------------------
 // lots
 // ---------------------------------------------------------------------------------------------
 
