@@ -321,6 +321,10 @@ fn write_row(
             geometry,
             ..
         } => (sheet_resistance_ohm_sq, geometry.id()),
+        Measurement::VanDerPauw {
+            sheet_resistance_ohm_sq,
+            ..
+        } => (Some(sheet_resistance_ohm_sq), ""),
     };
     let in_window = spec.map_or("", |window| {
         let value = match window.quantity() {

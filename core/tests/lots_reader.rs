@@ -217,6 +217,44 @@ fn tab_file_with_decimal_commas_and_empty_cells() {
 }
 
 #[test]
+fn van_der_pauw_columns_give_the_sheet_resistance() {
+    let text = "# thickness: 2 um\nlot,wafer,site,R_A [kohm],r_b\n\
+                A,1,1,0.5,500\n\
+                A,1,2,1,500\n\
+                A,1,3,,500\n";
+    let outcome = read_with(text, &boron());
+    let c = counts(&outcome);
+    assert_eq!(c.converted, 2);
+    assert_eq!(c.rejected, 1);
+    // Source: van der Pauw, Philips Res. Rep. 13, 1 (1958): R_A = R_B = R gives
+    // R_s = pi R / ln 2; 500 ohm -> 2266.18 ohm/sq, times 2 um = 0.453236 ohm cm.
+    close(
+        outcome.rows[0].resistivity_ohm_cm,
+        std::f64::consts::PI * 500.0 / std::f64::consts::LN_2 * 2e-4,
+        UNIT_RELATIVE,
+        "symmetric structure",
+    );
+    // Source: mpmath 1.4.1 (core/tests/data/gen_vdp_reference.py): R_s/R_B at R_A/R_B = 2 is
+    // 6.5285026052729938135; R_B = 500 ohm, t = 2 um.
+    close(
+        outcome.rows[1].resistivity_ohm_cm,
+        6.528_502_605_272_994 * 500.0 * 2e-4,
+        UNIT_RELATIVE,
+        "ratio 2",
+    );
+    assert!(matches!(
+        outcome.rows[1].measurement,
+        Measurement::VanDerPauw { r_a_ohm, r_b_ohm, .. } if r_a_ohm == 1000.0 && r_b_ohm == 500.0
+    ));
+    let missing = &outcome.rejected[0];
+    assert_eq!((missing.line, missing.column), (5, Some(Column::RA)));
+    assert_eq!(
+        missing.reason,
+        "empty; a van der Pauw reading needs both r_a and r_b"
+    );
+}
+
+#[test]
 fn bom_crlf_and_a_last_line_without_break() {
     let text = "\u{feff}lot,wafer,resistivity\r\nA,1,10\r\nA,1,11";
     let outcome = read_with(text, &boron());

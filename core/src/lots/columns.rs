@@ -40,6 +40,11 @@ pub enum Column {
     Amps,
     /// Four-point-probe spacing (equal, collinear); bare numbers in mm.
     Spacing,
+    /// Van der Pauw four-terminal resistance R_A (V/I); bare numbers in ohm; needs `r_b` and a
+    /// thickness.
+    RA,
+    /// Van der Pauw four-terminal resistance R_B, the configuration turned by one contact.
+    RB,
     /// Relative half-width of the measured value's uncertainty, in percent.
     Uncertainty,
     /// The sample geometry of a probe reading: thin-layer (default) or bulk.
@@ -48,7 +53,7 @@ pub enum Column {
 
 impl Column {
     /// Every column, in the order the documentation lists them.
-    pub const ALL: [Column; 15] = [
+    pub const ALL: [Column; 17] = [
         Column::Lot,
         Column::Wafer,
         Column::Site,
@@ -62,6 +67,8 @@ impl Column {
         Column::Volts,
         Column::Amps,
         Column::Spacing,
+        Column::RA,
+        Column::RB,
         Column::Uncertainty,
         Column::Geometry,
     ];
@@ -82,6 +89,8 @@ impl Column {
             Column::Volts => "volts",
             Column::Amps => "amps",
             Column::Spacing => "spacing",
+            Column::RA => "r_a",
+            Column::RB => "r_b",
             Column::Uncertainty => "uncertainty",
             Column::Geometry => "geometry",
         }
@@ -97,6 +106,7 @@ impl Column {
             Column::SheetResistance => Some(QuantityKind::SheetResistance),
             Column::Volts => Some(QuantityKind::Voltage),
             Column::Amps => Some(QuantityKind::Current),
+            Column::RA | Column::RB => Some(QuantityKind::Resistance),
             _ => None,
         }
     }
@@ -110,6 +120,7 @@ impl Column {
             Column::SheetResistance => Some("ohm/sq"),
             Column::Volts => Some("V"),
             Column::Amps => Some("A"),
+            Column::RA | Column::RB => Some("ohm"),
             Column::Uncertainty => Some("%"),
             _ => None,
         }

@@ -7,7 +7,7 @@
 //!   [`Site`] or a [`RowRejection`], reported through [`RowOutcome`]; [`RowCounts`] always add
 //!   up; [`LotFileError`] when a file cannot be read at all. [`read_str`] reads a whole text.
 //! - [`Column`]: the file columns (lot, wafer, site, x, y, dopant, type, resistivity,
-//!   sheet_resistance, thickness, volts, amps, spacing, uncertainty).
+//!   sheet_resistance, thickness, volts, amps, spacing, r_a, r_b, uncertainty).
 //! - [`LotBook`]: running tallies over any number of files; [`LotBook::report`] gives a
 //!   [`LotReport`] of [`LotSummary`] and [`WaferSummary`] with [`Summary`] statistics,
 //!   [`Judgement`]s against a [`SpecWindow`], Cpk, [`LotDifference`] (Welch) and

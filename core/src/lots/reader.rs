@@ -13,6 +13,7 @@ use crate::lots::columns::{Column, header_unit, normalise_name, split_name_and_u
 use crate::mobility::ConductivityType;
 use crate::probe::{self, ProbeGeometry, ProbeReading};
 use crate::units::{Unit, parse_quantity_bare_in};
+use crate::vdp::{self, Configuration, VdpError, VdpReadings};
 
 /// Longest line accepted, bytes: a lot file's lines are short; a longer one means the input
 /// is not a lot file (for example a binary file) and reading stops rather than buffering it.
@@ -56,15 +57,27 @@ pub enum Measurement {
         /// thickness).
         sheet_resistance_ohm_sq: Option<f64>,
     },
+    /// Van der Pauw structure: R_A and R_B to the sheet resistance, times the thickness.
+    VanDerPauw {
+        /// R_A, ohm.
+        r_a_ohm: f64,
+        /// R_B, ohm.
+        r_b_ohm: f64,
+        /// Thickness, cm.
+        thickness_cm: f64,
+        /// Sheet resistance from the van der Pauw equation, ohm/sq.
+        sheet_resistance_ohm_sq: f64,
+    },
 }
 
 impl Measurement {
-    /// "resistivity", "sheet_resistance" or "four_point_probe".
+    /// "resistivity", "sheet_resistance", "four_point_probe" or "van_der_pauw".
     pub fn name(&self) -> &'static str {
         match self {
             Measurement::Resistivity => "resistivity",
             Measurement::SheetResistance { .. } => "sheet_resistance",
             Measurement::Probe { .. } => "four_point_probe",
+            Measurement::VanDerPauw { .. } => "van_der_pauw",
         }
     }
 }
@@ -756,11 +769,16 @@ fn check_header(header: &Header, settings: &Settings, options: &ReadOptions) -> 
     if has(Column::Volts) != has(Column::Amps) {
         return Err("volts and amps come as a pair; give both columns or neither".to_owned());
     }
+    if has(Column::RA) != has(Column::RB) {
+        return Err("r_a and r_b come as a pair; give both columns or neither".to_owned());
+    }
     let probe = has(Column::Volts);
-    if !has(Column::Resistivity) && !has(Column::SheetResistance) && !probe {
+    let van_der_pauw = has(Column::RA);
+    if !has(Column::Resistivity) && !has(Column::SheetResistance) && !probe && !van_der_pauw {
         return Err(
             "no measurement column; give resistivity, sheet_resistance (with \
-                    thickness) or volts and amps (with spacing and thickness)"
+                    thickness), volts and amps (with spacing and thickness) or r_a and r_b \
+                    (with thickness)"
                 .to_owned(),
         );
     }
@@ -778,6 +796,13 @@ fn check_header(header: &Header, settings: &Settings, options: &ReadOptions) -> 
             "volts and amps on a thin layer need a thickness: add a thickness column or a line \
                     '# thickness: 525 um' before the header, or '# geometry: bulk' for a bulk \
                     sample"
+                .to_owned(),
+        );
+    }
+    if van_der_pauw && !thickness {
+        return Err(
+            "r_a and r_b need a thickness: add a thickness column or a line \
+                    '# thickness: 2 um' before the header"
                 .to_owned(),
         );
     }
@@ -1032,23 +1057,27 @@ fn read_row<'a>(
     let sheet = number(Column::SheetResistance, buffer)?;
     let volts = number(Column::Volts, buffer)?;
     let amps = number(Column::Amps, buffer)?;
+    let r_a = number(Column::RA, buffer)?;
+    let r_b = number(Column::RB, buffer)?;
     let given = [
         rho.is_some(),
         sheet.is_some(),
         volts.is_some() || amps.is_some(),
+        r_a.is_some() || r_b.is_some(),
     ];
     let count = given.iter().filter(|g| **g).count();
     if count == 0 {
         return Err(reject(
             None,
-            "no measurement; fill resistivity, sheet_resistance or volts and amps".to_owned(),
+            "no measurement; fill resistivity, sheet_resistance, volts and amps, or r_a and r_b"
+                .to_owned(),
         ));
     }
     if count > 1 {
         return Err(reject(
             None,
-            "more than one measurement filled (resistivity, sheet_resistance, volts/amps); \
-             give one per row"
+            "more than one measurement filled (resistivity, sheet_resistance, volts/amps, \
+             r_a/r_b); give one per row"
                 .to_owned(),
         ));
     }
@@ -1075,6 +1104,42 @@ fn read_row<'a>(
             },
             rho,
             Column::SheetResistance,
+        )
+    } else if r_a.is_some() || r_b.is_some() {
+        let (Some(r_a_ohm), Some(r_b_ohm)) = (r_a, r_b) else {
+            let missing = if r_a.is_none() {
+                Column::RA
+            } else {
+                Column::RB
+            };
+            return Err(reject(
+                Some(missing),
+                "empty; a van der Pauw reading needs both r_a and r_b".to_owned(),
+            ));
+        };
+        let thickness_cm = thickness(buffer)?;
+        let column = |e: &VdpError| match e {
+            VdpError::NotPositive { field, .. } if field.starts_with("r_b") => Column::RB,
+            VdpError::NotPositive { field, .. } if field.starts_with("thickness") => {
+                Column::Thickness
+            }
+            _ => Column::RA,
+        };
+        let result = vdp::evaluate(&VdpReadings {
+            a: Configuration::single(r_a_ohm),
+            b: Configuration::single(r_b_ohm),
+            thickness_cm: Some(thickness_cm),
+        })
+        .map_err(|e| reject(Some(column(&e)), e.to_string()))?;
+        (
+            Measurement::VanDerPauw {
+                r_a_ohm,
+                r_b_ohm,
+                thickness_cm,
+                sheet_resistance_ohm_sq: result.solution.sheet_resistance_ohm_sq,
+            },
+            result.resistivity_ohm_cm.unwrap_or(f64::NAN),
+            Column::RA,
         )
     } else {
         let (Some(volts), Some(amps)) = (volts, amps) else {

@@ -271,6 +271,17 @@ fn check_site(site: &Site<'_>) {
                 .into_iter()
                 .for_each(|r| positive("sheet_resistance_ohm_sq", r));
         }
+        Measurement::VanDerPauw {
+            r_a_ohm,
+            r_b_ohm,
+            thickness_cm,
+            sheet_resistance_ohm_sq,
+        } => {
+            positive("r_a_ohm", r_a_ohm);
+            positive("r_b_ohm", r_b_ohm);
+            positive("thickness_cm", thickness_cm);
+            positive("sheet_resistance_ohm_sq", sheet_resistance_ohm_sq);
+        }
     }
 }
 
