@@ -13,6 +13,7 @@ pub mod chart;
 pub mod crash_panel;
 pub mod entry;
 pub mod format;
+pub mod hall_view;
 pub mod lots_view;
 pub mod record;
 pub mod report;
@@ -169,6 +170,7 @@ pub fn App() -> impl IntoView {
                 View::Sweep => view! { <sweep::SweepView bench=bench /> }.into_any(),
                 View::Resistivity => view! { <resistivity::ResistivityView bench=bench /> }.into_any(),
                 View::Lots => view! { <lots_view::LotsView bench=bench /> }.into_any(),
+                View::Hall => view! { <hall_view::HallView bench=bench /> }.into_any(),
             }}
         </main>
         <report::ReportOverlay open=report_open />

@@ -198,6 +198,8 @@ pub fn charts(record: &SignoffRecord) -> Vec<ChartSpec> {
                 });
             vec![resistivity::chart(&resistivity::curves(), sample)]
         }
+        // The Hall view draws no chart.
+        RecordedView::HallAnalysis => Vec::new(),
         RecordedView::LotComparison => {
             let Some((work, inputs)) = lots_of(record) else {
                 return Vec::new();

@@ -18,11 +18,19 @@ pub enum View {
     Resistivity,
     /// Wafer-lot files summarised and judged against a spec window.
     Lots,
+    /// Van der Pauw sheet resistance and Hall analysis, cross-checked against the conversion.
+    Hall,
 }
 
 impl View {
     /// Every view, in tab order.
-    pub const ALL: [View; 4] = [View::Carriers, View::Sweep, View::Resistivity, View::Lots];
+    pub const ALL: [View; 5] = [
+        View::Carriers,
+        View::Sweep,
+        View::Resistivity,
+        View::Hall,
+        View::Lots,
+    ];
 
     /// The key used in the URL (`view=`).
     pub fn key(self) -> &'static str {
@@ -31,6 +39,7 @@ impl View {
             View::Sweep => "sweep",
             View::Resistivity => "resistivity",
             View::Lots => "lots",
+            View::Hall => "hall",
         }
     }
 
@@ -41,6 +50,7 @@ impl View {
             View::Sweep => "Temperature sweep",
             View::Resistivity => "Resistivity & probe",
             View::Lots => "Wafer lots",
+            View::Hall => "Van der Pauw & Hall",
         }
     }
 
@@ -200,6 +210,53 @@ impl Default for ConversionInputs {
     }
 }
 
+/// Inputs of the van der Pauw and Hall view, as typed.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct HallInputs {
+    /// R_A (V/I), ohm by default.
+    pub r_a: String,
+    /// R_B (V/I), ohm by default.
+    pub r_b: String,
+    /// Layer thickness.
+    pub thickness: String,
+    /// Net Hall voltage V2 - V4 (signed).
+    pub hall_voltage: String,
+    /// Current of the Hall measurement.
+    pub current: String,
+    /// Magnetic field (T, mT, G).
+    pub field: String,
+    /// Hall scattering factor: an id of `ScatteringFactor` or a number.
+    pub scattering: String,
+    /// Dopant of the layer, for the cross-check (silicon).
+    pub dopant: String,
+    /// Temperature of the measurement.
+    pub temperature: String,
+}
+
+impl HallInputs {
+    /// Whether every field is at its default.
+    pub fn is_default(&self) -> bool {
+        *self == HallInputs::default()
+    }
+}
+
+impl Default for HallInputs {
+    fn default() -> Self {
+        HallInputs {
+            r_a: "532 ohm".into(),
+            r_b: "506 ohm".into(),
+            thickness: "2 um".into(),
+            hall_voltage: "-1.56 mV".into(),
+            current: "10 uA".into(),
+            field: "5000 G".into(),
+            scattering: "unity".into(),
+            dopant: "P".into(),
+            temperature: "23 C".into(),
+        }
+    }
+}
+
 /// Everything the workbench needs to reproduce a calculation.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
 pub struct Workbench {
@@ -211,6 +268,11 @@ pub struct Workbench {
     pub sweep: SweepInputs,
     /// Resistivity view inputs.
     pub conversion: ConversionInputs,
+    /// Van der Pauw and Hall view inputs. Left out of the JSON while at their defaults, so
+    /// that records and saved inputs written before this view existed read back to the same
+    /// text (and a record's digest still matches it).
+    #[serde(default, skip_serializing_if = "HallInputs::is_default")]
+    pub hall: HallInputs,
 }
 
 /// The version written into saved states; a saved state of another version is not read.
@@ -286,9 +348,18 @@ const K_PROBE_T: &str = "w";
 const K_PROBE_D: &str = "dia";
 const K_PROBE_TEMP: &str = "tp";
 const K_PROBE_GEOMETRY: &str = "geom";
+const K_HALL_RA: &str = "ra";
+const K_HALL_RB: &str = "rb";
+const K_HALL_THICKNESS: &str = "ht";
+const K_HALL_VOLTAGE: &str = "vh";
+const K_HALL_CURRENT: &str = "ih";
+const K_HALL_FIELD: &str = "b";
+const K_HALL_FACTOR: &str = "rh";
+const K_HALL_DOPANT: &str = "hdop";
+const K_HALL_TEMPERATURE: &str = "htemp";
 
 /// Every key this page writes; a query with none of them is not a workbench link.
-const ALL_KEYS: [&str; 22] = [
+const ALL_KEYS: [&str; 31] = [
     K_VIEW,
     K_MATERIAL,
     K_TEMPERATURE,
@@ -311,6 +382,15 @@ const ALL_KEYS: [&str; 22] = [
     K_PROBE_D,
     K_PROBE_TEMP,
     K_PROBE_GEOMETRY,
+    K_HALL_RA,
+    K_HALL_RB,
+    K_HALL_THICKNESS,
+    K_HALL_VOLTAGE,
+    K_HALL_CURRENT,
+    K_HALL_FIELD,
+    K_HALL_FACTOR,
+    K_HALL_DOPANT,
+    K_HALL_TEMPERATURE,
 ];
 
 /// The state as a URL query string (without the leading `?`). Every field is written,
@@ -354,6 +434,15 @@ pub fn to_query(w: &Workbench) -> String {
         (K_PROBE_D, v.wafer_diameter.clone()),
         (K_PROBE_TEMP, v.probe_temperature.clone()),
         (K_PROBE_GEOMETRY, v.probe_geometry.clone()),
+        (K_HALL_RA, w.hall.r_a.clone()),
+        (K_HALL_RB, w.hall.r_b.clone()),
+        (K_HALL_THICKNESS, w.hall.thickness.clone()),
+        (K_HALL_VOLTAGE, w.hall.hall_voltage.clone()),
+        (K_HALL_CURRENT, w.hall.current.clone()),
+        (K_HALL_FIELD, w.hall.field.clone()),
+        (K_HALL_FACTOR, w.hall.scattering.clone()),
+        (K_HALL_DOPANT, w.hall.dopant.clone()),
+        (K_HALL_TEMPERATURE, w.hall.temperature.clone()),
     ]);
     pairs
         .iter()
@@ -424,6 +513,15 @@ pub fn from_query(query: &str) -> (Workbench, Vec<String>) {
             K_VALUE => v.value = value,
             K_CONV_DOPANT => v.dopant = value,
             K_PROBE_I => v.probe_current = value,
+            K_HALL_RA => w.hall.r_a = value,
+            K_HALL_RB => w.hall.r_b = value,
+            K_HALL_THICKNESS => w.hall.thickness = value,
+            K_HALL_VOLTAGE => w.hall.hall_voltage = value,
+            K_HALL_CURRENT => w.hall.current = value,
+            K_HALL_FIELD => w.hall.field = value,
+            K_HALL_FACTOR => w.hall.scattering = value,
+            K_HALL_DOPANT => w.hall.dopant = value,
+            K_HALL_TEMPERATURE => w.hall.temperature = value,
             K_PROBE_V => v.probe_voltage = value,
             K_PROBE_S => v.probe_spacing = value,
             K_PROBE_T => v.sample_thickness = value,
@@ -566,6 +664,17 @@ mod tests {
                 sample_thickness: "380 um".into(),
                 wafer_diameter: "200 mm".into(),
                 probe_temperature: "25 C".into(),
+            },
+            hall: HallInputs {
+                r_a: "1.2 kohm".into(),
+                r_b: "Ω 9&9".into(),
+                thickness: "350 nm".into(),
+                hall_voltage: "-12 uV".into(),
+                current: "1 uA".into(),
+                field: "0.3 T".into(),
+                scattering: "1.18".into(),
+                dopant: "B".into(),
+                temperature: "77 K".into(),
             },
         }
     }

@@ -155,7 +155,8 @@ refused_records! {
         "created_utc: missing; every sign-off record has it";
     view_unknown: resealed(|m| { m.insert("view".into(), json!("wafer_map")); }) =>
         "view: unknown variant `wafer_map`, expected one of `point_calculation`, \
-         `temperature_sweep`, `conversion`, `lot_comparison`; a version 2 record cannot have it";
+         `temperature_sweep`, `conversion`, `lot_comparison`, `hall_analysis`; a version 2 record \
+         cannot have it";
     inputs_without_the_workbench: resealed(|m| {
         m.insert("inputs".into(), json!({ "lots": null }));
     }) =>

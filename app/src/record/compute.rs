@@ -13,6 +13,7 @@ use super::{
 use crate::carriers;
 use crate::entry;
 use crate::format;
+use crate::hall_view;
 use crate::lots_view::{self, LotsWork};
 use crate::resistivity;
 use crate::state::{Given, Workbench};
@@ -25,6 +26,7 @@ pub fn compute(view: RecordedView, inputs: &RecordInputs) -> Result<RecordResult
         RecordedView::PointCalculation => point_calculation(w),
         RecordedView::TemperatureSweep => temperature_sweep(w),
         RecordedView::Conversion => conversion(w),
+        RecordedView::HallAnalysis => hall_analysis(w),
         RecordedView::LotComparison => lot_comparison(
             inputs
                 .lots
@@ -272,6 +274,122 @@ fn temperature_sweep(w: &Workbench) -> Result<RecordResults, String> {
         )],
         models,
         notes,
+    })
+}
+
+fn hall_analysis(w: &Workbench) -> Result<RecordResults, String> {
+    let o = hall_view::evaluate(&w.hall)?;
+    let s = &o.vdp.solution;
+    let h = &o.hall;
+    let rho = o.vdp.resistivity_ohm_cm.unwrap_or(f64::NAN);
+    let n = h.volume_density_cm3.unwrap_or(f64::NAN);
+    let sheet_rows = vec![
+        row(
+            "Sheet resistance Rs",
+            vec![number(
+                format::auto(s.sheet_resistance_ohm_sq),
+                s.sheet_resistance_ohm_sq,
+                "Ω/□",
+            )],
+        ),
+        row(
+            "Resistivity ρ",
+            vec![number(format::auto(rho), rho, "Ω·cm")],
+        ),
+        row(
+            "Symmetry R_A/R_B",
+            vec![number(format::fixed(s.ratio, 4), s.ratio, "")],
+        ),
+        row(
+            "Correction factor f",
+            vec![number(
+                format::fixed(s.correction_factor, 5),
+                s.correction_factor,
+                "",
+            )],
+        ),
+    ];
+    let hall_rows = vec![
+        row(
+            "Carrier type",
+            vec![words(hall_view::type_words(h.conductivity_type))],
+        ),
+        row(
+            "Sheet density n_s",
+            vec![number(
+                format::sci(h.sheet_density_cm2),
+                h.sheet_density_cm2,
+                "cm⁻²",
+            )],
+        ),
+        row("Carrier density n", vec![number(format::sci(n), n, "cm⁻³")]),
+        row(
+            "Hall mobility μ_H",
+            vec![number(
+                format::auto(h.hall_mobility_cm2_per_v_s),
+                h.hall_mobility_cm2_per_v_s,
+                "cm²/V·s",
+            )],
+        ),
+        row(
+            "Drift mobility μ = μ_H/r_H",
+            vec![number(
+                format::auto(h.drift_mobility_cm2_per_v_s),
+                h.drift_mobility_cm2_per_v_s,
+                "cm²/V·s",
+            )],
+        ),
+    ];
+    let cell = |v: Option<f64>, show: fn(f64) -> String, unit: &str| match v {
+        Some(v) => number(show(v), v, unit),
+        None => words("—"),
+    };
+    let percent = |v: Option<f64>| match v {
+        Some(v) => number(hall_view::percent(Some(v)), v, "%"),
+        None => words("—"),
+    };
+    let check_rows = o
+        .check
+        .rows
+        .iter()
+        .map(|r| {
+            row(
+                r.model.id(),
+                vec![
+                    cell(r.dopant_density_cm3, format::sci, "cm⁻³"),
+                    cell(r.carriers_cm3, format::sci, "cm⁻³"),
+                    percent(r.carriers_difference_percent),
+                    cell(r.mobility_cm2_per_v_s, format::auto, "cm²/V·s"),
+                    percent(r.mobility_difference_percent),
+                    words(r.error.clone().unwrap_or_default()),
+                ],
+            )
+        })
+        .collect();
+    Ok(RecordResults {
+        sections: vec![
+            section("Sheet resistance", &["Quantity", "Value"], sheet_rows),
+            section(
+                "Carriers from the Hall voltage",
+                &["Quantity", "Value"],
+                hall_rows,
+            ),
+            section(
+                "What each conversion model predicts for this layer",
+                &[
+                    "Model",
+                    "Dopant density",
+                    "Free carriers",
+                    "Hall vs model",
+                    "Mobility",
+                    "Hall vs model",
+                    "Remark",
+                ],
+                check_rows,
+            ),
+        ],
+        models: model_lines(hall_view::models_used(Some(&o))),
+        notes: Vec::new(),
     })
 }
 

@@ -97,6 +97,18 @@ pub fn input_lines(record: &SignoffRecord) -> Vec<(String, String)> {
             push("Wafer diameter", &v.wafer_diameter);
             push("Temperature of the reading", &v.probe_temperature);
         }
+        RecordedView::HallAnalysis => {
+            let h = &w.hall;
+            push("R_A", &h.r_a);
+            push("R_B", &h.r_b);
+            push("Layer thickness", &h.thickness);
+            push("Hall voltage V2 - V4", &h.hall_voltage);
+            push("Current", &h.current);
+            push("Magnetic field", &h.field);
+            push("Hall scattering factor", &h.scattering);
+            push("Dopant (cross-check)", &h.dopant);
+            push("Temperature of the measurement", &h.temperature);
+        }
         RecordedView::LotComparison => {
             if let Some(l) = &record.inputs.lots {
                 push("Spec limits on", &l.spec_quantity);

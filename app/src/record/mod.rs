@@ -65,6 +65,8 @@ pub enum RecordedView {
     Conversion,
     /// Wafer lots judged against a spec window (the lots view).
     LotComparison,
+    /// Van der Pauw sheet resistance and Hall analysis with the cross-check (the Hall view).
+    HallAnalysis,
 }
 
 impl RecordedView {
@@ -75,6 +77,7 @@ impl RecordedView {
             View::Sweep => RecordedView::TemperatureSweep,
             View::Resistivity => RecordedView::Conversion,
             View::Lots => RecordedView::LotComparison,
+            View::Hall => RecordedView::HallAnalysis,
         }
     }
 
@@ -85,6 +88,7 @@ impl RecordedView {
             RecordedView::TemperatureSweep => View::Sweep,
             RecordedView::Conversion => View::Resistivity,
             RecordedView::LotComparison => View::Lots,
+            RecordedView::HallAnalysis => View::Hall,
         }
     }
 
@@ -95,6 +99,7 @@ impl RecordedView {
             RecordedView::TemperatureSweep => "Temperature sweep",
             RecordedView::Conversion => "Resistivity conversion and four-point probe",
             RecordedView::LotComparison => "Wafer-lot comparison",
+            RecordedView::HallAnalysis => "Van der Pauw sheet resistance and Hall analysis",
         }
     }
 }

@@ -51,6 +51,7 @@ pub fn file_name(record: &SignoffRecord) -> String {
         RecordedView::TemperatureSweep => "sweep",
         RecordedView::Conversion => "conversion",
         RecordedView::LotComparison => "lots",
+        RecordedView::HallAnalysis => "hall",
     };
     let time: String = record
         .created_utc

@@ -8,7 +8,7 @@
 use arbitrary::{Result, Unstructured};
 use bandgauge_app::record::{LotFile, LotInputs};
 use bandgauge_app::state::{
-    CarrierInputs, ConversionInputs, DopantRow, Given, SweepInputs, View, Workbench,
+    CarrierInputs, ConversionInputs, DopantRow, Given, HallInputs, SweepInputs, View, Workbench,
 };
 
 /// A typical value, or any text.
@@ -76,6 +76,17 @@ pub fn workbench(u: &mut Unstructured<'_>) -> Result<Workbench> {
             sample_thickness: text(u, LENGTHS)?,
             wafer_diameter: text(u, &["150 mm", "200 mm", "", "1 mm"])?,
             probe_temperature: text(u, &["23 C", "25 C", "", "300 K"])?,
+        },
+        hall: HallInputs {
+            r_a: text(u, &["532 ohm", "1e300", "0", "10 kohm"])?,
+            r_b: text(u, &["506 ohm", "1e-300", "10", "5 T"])?,
+            thickness: text(u, LENGTHS)?,
+            hall_voltage: text(u, &["-1.56 mV", "0", "2 uV", "1e308"])?,
+            current: text(u, &["10 uA", "1 mA", "0"])?,
+            field: text(u, &["5000 G", "0.5 T", "0", "5 kG"])?,
+            scattering: text(u, &["unity", "acoustic-phonon", "1.18", "50", "x"])?,
+            dopant: text(u, &["P", "B", "As", "Ga", "N"])?,
+            temperature: text(u, TEMPERATURES)?,
         },
     })
 }
