@@ -7,6 +7,7 @@ use bandgauge_app::resistivity::PHONON_LIMIT_REMARK;
 use bandgauge_app::state::{View, Workbench, to_query};
 use bandgauge_core::compare::{self, ConversionInput};
 use bandgauge_core::empirical::{self, EMPIRICAL_TEMPERATURE_K, EmpiricalInput};
+use bandgauge_core::hall::{self, HallReading, HallVoltage, ScatteringFactor};
 use bandgauge_core::intrinsic::IntrinsicModel;
 use bandgauge_core::materials::{self, DopantDensity};
 use bandgauge_core::mobility::{self, MobilityModel};
@@ -14,6 +15,7 @@ use bandgauge_core::neutrality::{self, SolveOptions};
 use bandgauge_core::probe::{self, ProbeGeometry, ProbeReading, ReadingTemperature};
 use bandgauge_core::resistivity::{self, PhysicsOptions};
 use bandgauge_core::sweep;
+use bandgauge_core::vdp;
 use bandgauge_tests::browser::{by_testid, retype, screenshot, text_until, with_browser};
 use bandgauge_tests::ui::{
     attr_of, canvas_drawn, choose, click, downloads, last_blob_text, number_near, number_until,
@@ -673,6 +675,95 @@ async fn resistivity_view_compares_models_and_runs_the_probe() {
     .await;
 }
 
+/// The textbook uses q = 1.6e-19 C; bandgauge uses 1.602176634e-19 C (SI 2019): 0.14 %, plus
+/// the four displayed digits.
+const TEXTBOOK_CHARGE_TOLERANCE: f64 = 2e-3;
+
+#[tokio::test]
+async fn hall_view_gives_the_textbook_carriers_and_the_cross_check() {
+    with_browser(LAPTOP.0, LAPTOP.1, |client, base| async move {
+        client.goto(&base).await.expect("open app");
+        click(&client, "tab-hall").await;
+        // Source: D. A. Neamen, Semiconductor Physics and Devices, ch. 5, Hall-effect example
+        // (from memory): I = 1 mA, B = 500 G, d = 1e-3 cm, V_H = -6.25 mV on a bar of
+        // rho = 1.25 ohm cm (R_s = 1250 ohm/sq) give n = 5e15 cm^-3 and mu_n = 1000 cm^2/V s.
+        // A symmetric van der Pauw structure with R = 1250 ln 2 / pi = 275.8 ohm has that R_s
+        // (van der Pauw, Philips Res. Rep. 13, 1 (1958)).
+        let r = 1250.0 * std::f64::consts::LN_2 / std::f64::consts::PI;
+        let r_text = format!("{r} ohm");
+        retype(&client, "hall-ra", &r_text).await;
+        retype(&client, "hall-rb", &r_text).await;
+        retype(&client, "hall-thickness", "10 um").await;
+        retype(&client, "hall-voltage", "-6.25 mV").await;
+        retype(&client, "hall-current", "1 mA").await;
+        retype(&client, "hall-field", "500 G").await;
+        choose(&client, "hall-dopant", "P").await;
+        number_near(&client, "hall-sheet", 1250.0, DISPLAY_REL_TOL).await;
+        let n = number_near(&client, "hall-density", 5e15, TEXTBOOK_CHARGE_TOLERANCE).await;
+        number_near(&client, "hall-drift-mobility", 1000.0, TEXTBOOK_CHARGE_TOLERANCE).await;
+        assert_eq!(text_of(&client, "hall-type").await, "n (electrons)");
+        // The same numbers from the core.
+        let sheet = vdp::solve(r, r).expect("core vdp").sheet_resistance_ohm_sq;
+        let core = hall::evaluate(&HallReading {
+            voltage: HallVoltage::Net(-6.25e-3),
+            current_a: 1e-3,
+            field_t: 0.05,
+            sheet_resistance_ohm_sq: sheet,
+            thickness_cm: Some(1e-3),
+            scattering: ScatteringFactor::Unity,
+        })
+        .expect("core hall");
+        let core_n = core.volume_density_cm3.expect("thickness given");
+        assert!((n / core_n - 1.0).abs() <= DISPLAY_REL_TOL, "{n} vs {core_n}");
+        let check = hall::cross_check(
+            &materials::silicon(),
+            "P",
+            sheet * 1e-3,
+            &core,
+            EMPIRICAL_TEMPERATURE_K,
+            &SolveOptions::default(),
+        )
+        .expect("core cross-check");
+        let masetti = check
+            .rows
+            .iter()
+            .find(|row| row.model.id() == "masetti")
+            .expect("masetti row");
+        number_near(
+            &client,
+            "hall-check-masetti-dopant",
+            masetti.dopant_density_cm3.expect("density"),
+            DISPLAY_REL_TOL,
+        )
+        .await;
+        number_near(
+            &client,
+            "hall-check-masetti-carriers",
+            masetti.carriers_cm3.expect("carriers"),
+            DISPLAY_REL_TOL,
+        )
+        .await;
+        let diff = text_of(&client, "hall-check-masetti-carriers-diff").await;
+        assert_eq!(
+            diff,
+            format!("{:+.1} %", masetti.carriers_difference_percent.expect("diff"))
+        );
+        screenshot(&client, "view-hall-textbook").await;
+
+        // A field in a resistance unit is refused in place; the last valid result stays.
+        retype(&client, "hall-field", "500 ohm").await;
+        let message = text_until(&client, "hall-field-error", |t| !t.is_empty()).await;
+        assert!(message.contains("not an accepted magnetic field unit"), "{message}");
+        text_until(&client, "hall-status", |t| t.contains("Showing the last valid result")).await;
+        number_near(&client, "hall-density", core_n, DISPLAY_REL_TOL).await;
+        screenshot(&client, "view-hall-refused-field").await;
+        // The link carries the inputs.
+        let link = query(&client).await;
+        assert!(link.contains("view=hall") && link.contains("&b=500%20ohm"), "{link}");
+    })
+    .await;
+}
+
 #[tokio::test(flavor = "multi_thread")]
 async fn every_view_at_both_window_sizes() {
     for (w, h) in [LAPTOP, DESKTOP] {
@@ -692,6 +783,10 @@ async fn every_view_at_both_window_sizes() {
             canvas_drawn(&client, "chart-resistivity", MIN_INKED_PIXELS).await;
             number_until(&client, "model-thurber", |_| true).await;
             screenshot(&client, &format!("view-resistivity-{w}x{h}")).await;
+            click(&client, "tab-hall").await;
+            number_until(&client, "hall-density", |_| true).await;
+            screenshot(&client, &format!("view-hall-{w}x{h}")).await;
+            click(&client, "tab-resistivity").await;
             // Keyboard: the tab strip answers the arrow keys.
             by_testid(&client, "tab-resistivity")
                 .await
