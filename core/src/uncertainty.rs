@@ -73,6 +73,23 @@ impl Measured {
         }
     }
 
+    /// The half-width to perturb by: `None` when it is zero; refused when it reaches the value
+    /// (value - half-width would not be a valid input).
+    fn perturbation(&self, field: &'static str) -> Result<Option<f64>, UncertaintyError> {
+        let u = self.half_width(field)?;
+        if u == 0.0 {
+            return Ok(None);
+        }
+        if u >= self.value.abs() {
+            return Err(UncertaintyError::ToleranceTooLarge {
+                field,
+                value: self.value,
+                half_width: u,
+            });
+        }
+        Ok(Some(u))
+    }
+
     /// The absolute half-width (0 when none is stated).
     fn half_width(&self, field: &'static str) -> Result<f64, UncertaintyError> {
         let u = match self.tolerance {
@@ -352,17 +369,9 @@ pub fn propagate(request: &UncertaintyRequest) -> Result<Interval, UncertaintyEr
     let mut notes = Vec::new();
     let mut contributions = Vec::new();
     for (field, name, measured) in inputs {
-        let u = measured.half_width(name)?;
-        if u == 0.0 {
+        let Some(u) = measured.perturbation(name)? else {
             continue;
-        }
-        if u >= measured.value.abs() {
-            return Err(UncertaintyError::ToleranceTooLarge {
-                field: name,
-                value: measured.value,
-                half_width: u,
-            });
-        }
+        };
         let (low_point, high_point) = (
             nominal.with(field, measured.value - u),
             nominal.with(field, measured.value + u),
@@ -497,18 +506,9 @@ pub fn one_at_a_time<E: From<UncertaintyError>>(
     let values = evaluate(&nominal)?;
     let mut contributions: Vec<Vec<Contribution>> = vec![Vec::new(); outputs.len()];
     for (index, (name, measured)) in inputs.iter().enumerate() {
-        let u = measured.half_width(name)?;
-        if u == 0.0 {
+        let Some(u) = measured.perturbation(name)? else {
             continue;
-        }
-        if u >= measured.value.abs() {
-            return Err(UncertaintyError::ToleranceTooLarge {
-                field: name,
-                value: measured.value,
-                half_width: u,
-            }
-            .into());
-        }
+        };
         let mut point = nominal.clone();
         point[index] = measured.value - u;
         let low = evaluate(&point)?;

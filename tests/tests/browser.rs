@@ -700,7 +700,13 @@ async fn hall_view_gives_the_textbook_carriers_and_the_cross_check() {
         choose(&client, "hall-dopant", "P").await;
         number_near(&client, "hall-sheet", 1250.0, DISPLAY_REL_TOL).await;
         let n = number_near(&client, "hall-density", 5e15, TEXTBOOK_CHARGE_TOLERANCE).await;
-        number_near(&client, "hall-drift-mobility", 1000.0, TEXTBOOK_CHARGE_TOLERANCE).await;
+        number_near(
+            &client,
+            "hall-drift-mobility",
+            1000.0,
+            TEXTBOOK_CHARGE_TOLERANCE,
+        )
+        .await;
         assert_eq!(text_of(&client, "hall-type").await, "n (electrons)");
         // The same numbers from the core.
         let sheet = vdp::solve(r, r).expect("core vdp").sheet_resistance_ohm_sq;
@@ -714,7 +720,10 @@ async fn hall_view_gives_the_textbook_carriers_and_the_cross_check() {
         })
         .expect("core hall");
         let core_n = core.volume_density_cm3.expect("thickness given");
-        assert!((n / core_n - 1.0).abs() <= DISPLAY_REL_TOL, "{n} vs {core_n}");
+        assert!(
+            (n / core_n - 1.0).abs() <= DISPLAY_REL_TOL,
+            "{n} vs {core_n}"
+        );
         let check = hall::cross_check(
             &materials::silicon(),
             "P",
@@ -746,20 +755,34 @@ async fn hall_view_gives_the_textbook_carriers_and_the_cross_check() {
         let diff = text_of(&client, "hall-check-masetti-carriers-diff").await;
         assert_eq!(
             diff,
-            format!("{:+.1} %", masetti.carriers_difference_percent.expect("diff"))
+            format!(
+                "{:+.1} %",
+                masetti.carriers_difference_percent.expect("diff")
+            )
         );
         screenshot(&client, "view-hall-textbook").await;
 
-        // A field in a resistance unit is refused in place; the last valid result stays.
+        // A field in a resistance unit is refused in place; the last valid result stays. Typing
+        // "500 ohm" passes through "500", a valid 500 T, so that is the last valid result: the
+        // density scales with B, 1e4 times the 500 G value.
         retype(&client, "hall-field", "500 ohm").await;
         let message = text_until(&client, "hall-field-error", |t| !t.is_empty()).await;
-        assert!(message.contains("not an accepted magnetic field unit"), "{message}");
-        text_until(&client, "hall-status", |t| t.contains("Showing the last valid result")).await;
-        number_near(&client, "hall-density", core_n, DISPLAY_REL_TOL).await;
+        assert!(
+            message.contains("not an accepted magnetic field unit"),
+            "{message}"
+        );
+        text_until(&client, "hall-status", |t| {
+            t.contains("Showing the last valid result")
+        })
+        .await;
+        number_near(&client, "hall-density", core_n * 1e4, DISPLAY_REL_TOL).await;
         screenshot(&client, "view-hall-refused-field").await;
         // The link carries the inputs.
         let link = query(&client).await;
-        assert!(link.contains("view=hall") && link.contains("&b=500%20ohm"), "{link}");
+        assert!(
+            link.contains("view=hall") && link.contains("&b=500%20ohm"),
+            "{link}"
+        );
     })
     .await;
 }
