@@ -616,7 +616,7 @@ catalogue! {
     lots_file_without_a_header: ["lots", "a.csv"] files [("a.csv", "10.1\n9.9\n")] => REFUSED,
         "error: a.csv: line 1: \"10.1\" is not a header: it names none of the columns lot, wafer, \
          site, x, y, dopant, type, resistivity, sheet_resistance, thickness, volts, amps, spacing, \
-         uncertainty, geometry\n";
+         r_a, r_b, uncertainty, geometry\n";
     lots_file_without_a_dopant: ["lots", "a.csv"] files [("a.csv", "lot,wafer,resistivity\nA1,1,10\n")] => REFUSED,
         "error: a.csv: line 1: header: no dopant: add a dopant or type column, a line '# dopant: B' \
          before the header, or name the dopant for all files (--dopant)\n";

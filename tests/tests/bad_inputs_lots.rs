@@ -68,7 +68,7 @@ fn only_rejection(text: &[u8], default_dopant: Option<&str>) -> String {
 
 /// Every column name, as the header messages list them.
 const COLUMNS: &str = "lot, wafer, site, x, y, dopant, type, resistivity, sheet_resistance, \
-                       thickness, volts, amps, spacing, uncertainty, geometry";
+                       thickness, volts, amps, spacing, r_a, r_b, uncertainty, geometry";
 
 /// One `#[test]` per file the reader refuses as a whole, with the exact message.
 macro_rules! refused_files {
@@ -124,7 +124,12 @@ refused_files! {
         "line 1: header: volts and amps come as a pair; give both columns or neither";
     no_measurement_column: "lot,wafer,site,dopant\n" =>
         "line 1: header: no measurement column; give resistivity, sheet_resistance (with \
-         thickness) or volts and amps (with spacing and thickness)";
+         thickness), volts and amps (with spacing and thickness) or r_a and r_b (with thickness)";
+    van_der_pauw_without_thickness: "lot,wafer,r_a,r_b,dopant\n" =>
+        "line 1: header: r_a and r_b need a thickness: add a thickness column or a line \
+         '# thickness: 2 um' before the header";
+    van_der_pauw_half_a_pair: "lot,wafer,r_a,thickness,dopant\n" =>
+        "line 1: header: r_a and r_b come as a pair; give both columns or neither";
     sheet_resistance_without_thickness: "lot,wafer,sheet_resistance,dopant\n" =>
         "line 1: header: sheet_resistance needs a thickness: add a thickness column or a line \
          '# thickness: 525 um' before the header";
@@ -250,10 +255,15 @@ rejected_rows! {
         "line 3: dopant 'Ga' has no empirical silicon relation; give B, P, As or Sb (or boron, \
          phosphorus, arsenic, antimony)";
     no_measurement_filled: (RHO, "A1,1,1,B,10", "A1,1,2,B,") =>
-        "line 3: no measurement; fill resistivity, sheet_resistance or volts and amps";
+        "line 3: no measurement; fill resistivity, sheet_resistance, volts and amps, or r_a and r_b";
     two_measurements_filled: ("lot,wafer,dopant,resistivity,sheet_resistance,thickness", "A1,1,B,10,,", "A1,1,B,10,190,525") =>
-        "line 3: more than one measurement filled (resistivity, sheet_resistance, volts/amps); \
-         give one per row";
+        "line 3: more than one measurement filled (resistivity, sheet_resistance, volts/amps, \
+         r_a/r_b); give one per row";
+    van_der_pauw_without_r_b: ("lot,wafer,dopant,r_a,r_b,thickness [um]", "A1,1,B,500,500,2", "A1,1,B,500,,2") =>
+        "line 3: r_b: empty; a van der Pauw reading needs both r_a and r_b";
+    van_der_pauw_zero: ("lot,wafer,dopant,r_a,r_b,thickness [um]", "A1,1,B,500,500,2", "A1,1,B,500,0,2") =>
+        "line 3: r_b: r_b_ohm: 0e0 is not allowed; give a finite resistance V/I > 0 (for a \
+         reversed-polarity reading divide the reversed voltage by the reversed current)";
     sheet_resistance_without_its_thickness: (SHEET, "A1,1,1,B,190,525", "A1,1,2,B,190,") =>
         "line 3: thickness: empty; this measurement needs the thickness";
     sheet_resistance_zero: (SHEET, "A1,1,1,B,190,525", "A1,1,2,B,0,525") =>
