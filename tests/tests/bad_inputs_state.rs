@@ -188,7 +188,8 @@ saved! {
         "the saved inputs are from format version 0 (this page reads 1); the defaults are shown";
     saved_with_an_unknown_view: saved_workbench("Plots", "{}") =>
         "the saved inputs could not be read (unknown variant `Plots`, expected one of \
-         `Carriers`, `Sweep`, `Resistivity`, `Lots` at line 1 column 40); the defaults are shown";
+         `Carriers`, `Sweep`, `Resistivity`, `Lots`, `Hall` at line 1 column 40); the defaults are \
+         shown";
     saved_with_a_number_where_text_is_kept: saved_workbench("Carriers", "{\"temperature\":300}") =>
         "the saved inputs could not be read (invalid type: integer `300`, expected a string at \
          line 1 column 73); the defaults are shown";
