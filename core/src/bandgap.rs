@@ -1,17 +1,12 @@
 //! Temperature dependence of the band gap (Varshni form).
+//!
+//! The parameter set [`Varshni`] is data in [`crate::params`]; this module evaluates it and
+//! refuses a gap that is not positive.
 
-use serde::{Deserialize, Serialize};
+use crate::errors::CarrierError;
+use crate::materials::Material;
 
-/// Varshni parameters: Eg(T) = Eg0 - alpha T^2 / (T + beta).
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
-pub struct Varshni {
-    /// Band gap at 0 K, eV.
-    pub eg0_ev: f64,
-    /// alpha, eV/K.
-    pub alpha_ev_per_k: f64,
-    /// beta, K.
-    pub beta_k: f64,
-}
+pub use crate::params::Varshni;
 
 impl Varshni {
     /// Band gap in eV at `temperature_k`.
@@ -31,27 +26,22 @@ impl Varshni {
         let t = temperature_k;
         self.eg0_ev - self.alpha_ev_per_k * t * t / (t + self.beta_k)
     }
+}
 
-    /// The fields that break the formula, as (field name, value, what is allowed).
-    ///
-    /// Eg0 must be finite and > 0, alpha finite (either sign: a few
-    /// materials have a gap that grows with temperature), beta finite and >= 0
-    /// so that T + beta never vanishes for T > 0.
-    pub(crate) fn invalid_field(&self) -> Option<(&'static str, f64, &'static str)> {
-        if !(self.eg0_ev.is_finite() && self.eg0_ev > 0.0) {
-            return Some(("varshni.eg0_ev", self.eg0_ev, "a finite value > 0 eV"));
-        }
-        if !self.alpha_ev_per_k.is_finite() {
-            return Some((
-                "varshni.alpha_ev_per_k",
-                self.alpha_ev_per_k,
-                "a finite value in eV/K",
-            ));
-        }
-        if !(self.beta_k.is_finite() && self.beta_k >= 0.0) {
-            return Some(("varshni.beta_k", self.beta_k, "a finite value >= 0 K"));
-        }
-        None
+/// The Varshni gap of `material`, refused where it is not positive.
+pub(crate) fn band_gap_checked(
+    material: &Material,
+    temperature_k: f64,
+) -> Result<f64, CarrierError> {
+    let eg = material.varshni.band_gap_ev(temperature_k);
+    if eg > 0.0 {
+        Ok(eg)
+    } else {
+        Err(CarrierError::NonPositiveBandGap {
+            material: material.id.clone(),
+            temperature_k,
+            band_gap_ev: eg,
+        })
     }
 }
 

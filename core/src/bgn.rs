@@ -1,23 +1,11 @@
 //! Band-gap narrowing at heavy doping (Slotboom form).
-
-use std::borrow::Cow;
+//!
+//! The parameter set [`SlotboomParams`] and the published silicon set are data in
+//! [`crate::params`]; this module evaluates the form and names the model choice.
 
 use serde::{Deserialize, Serialize};
 
-/// Parameters of the Slotboom form dEg = E1 [ln(N/N0) + sqrt(ln^2(N/N0) + C)].
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct SlotboomParams {
-    /// Short name of the set, e.g. "Slotboom-de Graaff 1977".
-    pub name: Cow<'static, str>,
-    /// E1, eV.
-    pub e1_ev: f64,
-    /// N0, cm^-3.
-    pub n0_cm3: f64,
-    /// C (dimensionless).
-    pub c: f64,
-    /// Where the set is published.
-    pub source: Cow<'static, str>,
-}
+pub use crate::params::{SlotboomParams, slotboom_de_graaff_1977};
 
 impl SlotboomParams {
     /// Narrowing in eV at total dopant density `total_doping_cm3`.
@@ -49,19 +37,6 @@ impl SlotboomParams {
         };
         self.e1_ev * bracket
     }
-
-    pub(crate) fn invalid_field(&self) -> Option<(&'static str, f64, &'static str)> {
-        if !(self.e1_ev.is_finite() && self.e1_ev >= 0.0) {
-            return Some(("e1_ev", self.e1_ev, "a finite value >= 0 eV"));
-        }
-        if !(self.n0_cm3.is_finite() && self.n0_cm3 > 0.0) {
-            return Some(("n0_cm3", self.n0_cm3, "a finite value > 0 cm^-3"));
-        }
-        if !(self.c.is_finite() && self.c > 0.0) {
-            return Some(("c", self.c, "a finite value > 0"));
-        }
-        None
-    }
 }
 
 /// Which band-gap narrowing model to apply.
@@ -75,24 +50,6 @@ pub enum BgnModel {
     MaterialSet,
     /// An explicit Slotboom-form set (for user-defined materials).
     Slotboom(SlotboomParams),
-}
-
-/// The Slotboom & de Graaff 1977 set for silicon.
-///
-/// # References
-/// Slotboom & de Graaff, IEEE Trans. Electron Devices 24, 1123 (1977):
-/// E1 = 6.92 meV, N0 = 1.3e17 cm^-3, C = 0.5.
-pub fn slotboom_de_graaff_1977() -> SlotboomParams {
-    SlotboomParams {
-        name: "Slotboom-de Graaff 1977".into(),
-        // Source: Slotboom & de Graaff, IEEE Trans. Electron Devices 24, 1123 (1977).
-        e1_ev: 6.92e-3,
-        n0_cm3: 1.3e17,
-        c: 0.5,
-        source: "SlotboomDeGraaff1977: Slotboom & de Graaff, IEEE Trans. Electron Devices 24, \
-                 1123 (1977)"
-            .into(),
-    }
 }
 
 #[cfg(test)]

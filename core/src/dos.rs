@@ -1,21 +1,10 @@
 //! Effective densities of states of the conduction and valence bands.
-
-use serde::{Deserialize, Serialize};
+//!
+//! The power law [`PowerLaw`] is data in [`crate::params`]; this module evaluates it.
 
 use crate::constants::{BOLTZMANN_J_PER_K, ELECTRON_MASS_KG, PLANCK_J_S};
 
-/// Reference temperature of the power laws, K.
-pub const REFERENCE_TEMPERATURE_K: f64 = 300.0;
-
-/// A power law N(T) = N300 (T/300)^exponent, the usual way published
-/// effective densities of states are stated.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
-pub struct PowerLaw {
-    /// Value at 300 K, cm^-3.
-    pub at_300k_cm3: f64,
-    /// Temperature exponent (1.5 for a temperature-independent effective mass).
-    pub exponent: f64,
-}
+pub use crate::params::{PowerLaw, REFERENCE_TEMPERATURE_K};
 
 impl PowerLaw {
     /// N(T) in cm^-3.
@@ -45,16 +34,6 @@ impl PowerLaw {
             at_300k_cm3: effective_density_cm3(mass_ratio, REFERENCE_TEMPERATURE_K),
             exponent: 1.5,
         }
-    }
-
-    pub(crate) fn invalid_field(&self) -> Option<(&'static str, f64, &'static str)> {
-        if !(self.at_300k_cm3.is_finite() && self.at_300k_cm3 > 0.0) {
-            return Some(("at_300k_cm3", self.at_300k_cm3, "a finite value > 0 cm^-3"));
-        }
-        if !self.exponent.is_finite() {
-            return Some(("exponent", self.exponent, "a finite number"));
-        }
-        None
     }
 }
 

@@ -12,14 +12,18 @@
 //! instead (silicon: Misiakos & Tsamakis 1993, 9.70e9 cm^-3 at 300 K, valid
 //! 78-340 K); the solver then scales Nc and Nv by one common factor so that
 //! n p = ni_fit^2 in the non-degenerate limit.
-
-use std::borrow::Cow;
+//!
+//! The fit's parameter set [`IntrinsicFit`] and the published silicon fit are data in
+//! [`crate::params`]; this module evaluates them.
 
 use serde::{Deserialize, Serialize};
 
+use crate::bandgap::band_gap_checked;
 use crate::constants::thermal_energy_ev;
+use crate::errors::{CarrierError, check_temperature};
 use crate::materials::Material;
-use crate::neutrality::CarrierError;
+
+pub use crate::params::{IntrinsicFit, misiakos_tsamakis_1993};
 
 /// Which intrinsic-density model to use.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default, Serialize, Deserialize)]
@@ -33,25 +37,6 @@ pub enum IntrinsicModel {
     /// The material's published direct fit of ni(T) ([`Material::intrinsic_fit`]),
     /// only within the fit's stated temperature range.
     DirectFit,
-}
-
-/// A published direct fit ni(T) = A (T/300 K)^b exp(-c/T).
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct IntrinsicFit {
-    /// Short name of the fit, e.g. "Misiakos-Tsamakis 1993".
-    pub name: Cow<'static, str>,
-    /// A, cm^-3.
-    pub prefactor_cm3: f64,
-    /// b (dimensionless).
-    pub exponent: f64,
-    /// c, K.
-    pub activation_k: f64,
-    /// Lowest temperature of the fitted data, K.
-    pub min_temperature_k: f64,
-    /// Highest temperature of the fitted data, K.
-    pub max_temperature_k: f64,
-    /// Where the fit is published.
-    pub source: Cow<'static, str>,
 }
 
 impl IntrinsicFit {
@@ -75,7 +60,7 @@ impl IntrinsicFit {
     }
 
     pub(crate) fn check_range(&self, temperature_k: f64) -> Result<(), CarrierError> {
-        crate::neutrality::check_temperature(temperature_k)?;
+        check_temperature(temperature_k)?;
         if temperature_k < self.min_temperature_k || temperature_k > self.max_temperature_k {
             return Err(CarrierError::OutsideModelRange {
                 model: self.name.to_string(),
@@ -85,61 +70,6 @@ impl IntrinsicFit {
             });
         }
         Ok(())
-    }
-
-    pub(crate) fn invalid_field(&self) -> Option<(&'static str, f64, &'static str)> {
-        if !(self.prefactor_cm3.is_finite() && self.prefactor_cm3 > 0.0) {
-            return Some((
-                "prefactor_cm3",
-                self.prefactor_cm3,
-                "a finite value > 0 cm^-3",
-            ));
-        }
-        if !self.exponent.is_finite() {
-            return Some(("exponent", self.exponent, "a finite number"));
-        }
-        if !(self.activation_k.is_finite() && self.activation_k >= 0.0) {
-            return Some(("activation_k", self.activation_k, "a finite value >= 0 K"));
-        }
-        if !(self.min_temperature_k.is_finite() && self.min_temperature_k > 0.0) {
-            return Some((
-                "min_temperature_k",
-                self.min_temperature_k,
-                "a finite value > 0 K",
-            ));
-        }
-        if !(self.max_temperature_k.is_finite() && self.max_temperature_k >= self.min_temperature_k)
-        {
-            return Some((
-                "max_temperature_k",
-                self.max_temperature_k,
-                "a finite value >= min_temperature_k",
-            ));
-        }
-        None
-    }
-}
-
-/// The Misiakos & Tsamakis direct fit for silicon.
-///
-/// # Formula
-/// ni = 5.29e19 (T/300)^2.54 exp(-6726/T) cm^-3.
-///
-/// # Validity
-/// 78-340 K (the range of their capacitance measurements).
-///
-/// # References
-/// Misiakos & Tsamakis, J. Appl. Phys. 74, 3293 (1993).
-pub fn misiakos_tsamakis_1993() -> IntrinsicFit {
-    IntrinsicFit {
-        name: "Misiakos-Tsamakis 1993".into(),
-        // Source: Misiakos & Tsamakis, J. Appl. Phys. 74, 3293 (1993): 5.29e19, 2.54, 6726 K, 78-340 K.
-        prefactor_cm3: 5.29e19,
-        exponent: 2.54,
-        activation_k: 6726.0,
-        min_temperature_k: 78.0,
-        max_temperature_k: 340.0,
-        source: "MisiakosTsamakis1993: Misiakos & Tsamakis, J. Appl. Phys. 74, 3293 (1993)".into(),
     }
 }
 
@@ -178,9 +108,9 @@ pub fn intrinsic_density(
     temperature_k: f64,
     model: IntrinsicModel,
 ) -> Result<f64, CarrierError> {
-    crate::neutrality::check_temperature(temperature_k)?;
+    check_temperature(temperature_k)?;
     material.validate().map_err(CarrierError::InvalidMaterial)?;
-    let eg = crate::neutrality::band_gap_checked(material, temperature_k)?;
+    let eg = band_gap_checked(material, temperature_k)?;
     match model {
         IntrinsicModel::DensityOfStates => Ok(ln_from_dos(
             material.nc.ln_at(temperature_k),
@@ -196,5 +126,24 @@ pub fn intrinsic_density(
                 material: material.id.clone(),
             }),
         },
+    }
+}
+
+impl Material {
+    /// Intrinsic density in cm^-3 at `temperature_k` from the Varshni gap and
+    /// Nc, Nv (Boltzmann statistics, no validation; NaN or 0 outside T > 0).
+    ///
+    /// # Formula
+    /// ni = sqrt(Nc(T) Nv(T)) exp(-Eg(T) / 2kT).
+    ///
+    /// For the selectable models and validated input use
+    /// [`intrinsic_density`].
+    pub fn intrinsic_density_cm3(&self, temperature_k: f64) -> f64 {
+        from_dos_cm3(
+            self.nc.at(temperature_k),
+            self.nv.at(temperature_k),
+            self.varshni.band_gap_ev(temperature_k),
+            temperature_k,
+        )
     }
 }

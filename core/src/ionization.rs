@@ -8,7 +8,8 @@
 //! - [`AltermattParameters`] (carried by a [`Dopant`]) with the published silicon sets
 //!   [`ALTERMATT_SI_PHOSPHORUS`], [`ALTERMATT_SI_ARSENIC`], [`ALTERMATT_SI_BORON`];
 //!   [`PearsonBardeenParameters`] (carried by a [`Material`]) with [`PEARSON_BARDEEN_SILICON`];
-//!   [`pearson_bardeen_level_ev`].
+//!   [`pearson_bardeen_level_ev`]. The sets are data in [`crate::params`] (re-exported here);
+//!   this module holds the formulas that evaluate them.
 //! - [`effective_level`]: the level, localized fraction and model a solve uses for one species.
 //! - [`IonizationError`].
 //!
@@ -33,13 +34,17 @@
 //! parameters were fitted to, the three choices coincide; summing over the kind also makes a
 //! species split into two entries give the same answer.
 
-use std::borrow::Cow;
 use std::fmt;
 
 use serde::{Deserialize, Serialize};
 
 use crate::constants::thermal_energy_ev;
 use crate::materials::{Dopant, DopantKind, Material};
+
+pub use crate::params::{
+    ALTERMATT_SI_ARSENIC, ALTERMATT_SI_BORON, ALTERMATT_SI_PHOSPHORUS, ALTERMATT_SOURCE,
+    AltermattParameters, PEARSON_BARDEEN_SILICON, PEARSON_BARDEEN_SOURCE, PearsonBardeenParameters,
+};
 
 /// Fraction of donors that are ionized (positive).
 ///
@@ -214,76 +219,6 @@ impl fmt::Display for IonizationError {
 
 impl std::error::Error for IonizationError {}
 
-/// Citation of the Altermatt model and its parameter table.
-pub const ALTERMATT_SOURCE: &str = "Altermatt2006: Altermatt, Schenk, Schmithuesen, Heiser, J. Appl. \
-     Phys. 100, 113714 (2006) (Si:P) and 113715 (2006) (Si:As, Si:B), Table 1";
-/// Citation of the Pearson-Bardeen lowering and of the alpha values.
-pub const PEARSON_BARDEEN_SOURCE: &str = "PearsonBardeen1949: Pearson, Bardeen, Phys. Rev. 75, 865 \
-     (1949); alpha 3.1e-8 eV cm (donors), 3.037e-8 eV cm (acceptors): widely used defaults \
-     (from memory)";
-
-/// One parameter set of the Altermatt et al. (2006) ionization model, carried by the dopant
-/// it belongs to ([`Dopant::altermatt`]).
-///
-/// # Formula
-/// E(N) = E0 / (1 + (N/N_ref)^c) (eV, from the band edge); b(N) = 1 / (1 + (N/N_b)^d), the
-/// fraction of the dopants that stays localized; N in cm^-3.
-///
-/// # References
-/// Altermatt, Schenk, Schmithuesen, Heiser, J. Appl. Phys. 100, 113714 and 113715 (2006),
-/// Table 1 (the values). The way the two functions enter the ionized density (the localized
-/// fraction b follows Fermi-Dirac occupancy of the level E(N) with the usual g, the rest
-/// 1 - b counts as ionized at every temperature) is this module's reading of their
-/// simplified model for device simulation, from memory; it reproduces their statement that
-/// incomplete ionization at 300 K peaks near the Mott transition (about a quarter of Si:P
-/// neutral near 2e18 cm^-3).
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct AltermattParameters {
-    /// E0, the dilute-limit level, eV (the set's own, which may differ from the dopant's
-    /// `ionization_energy_ev`).
-    pub e0_ev: f64,
-    /// N_ref, cm^-3.
-    pub n_ref_cm3: f64,
-    /// c, dimensionless.
-    pub c: f64,
-    /// N_b, cm^-3.
-    pub n_b_cm3: f64,
-    /// d, dimensionless.
-    pub d: f64,
-    /// Where the set comes from.
-    pub source: Cow<'static, str>,
-}
-
-// Source: Altermatt et al., J. Appl. Phys. 100, 113715 (2006), Table 1 (P from part I, 113714):
-// E0, N_ref, c, N_b, d.
-/// Phosphorus in silicon: 45.5 meV, 3e18 cm^-3, 2, 6e18 cm^-3, 2.3.
-pub const ALTERMATT_SI_PHOSPHORUS: AltermattParameters = AltermattParameters {
-    e0_ev: 0.0455,
-    n_ref_cm3: 3e18,
-    c: 2.0,
-    n_b_cm3: 6e18,
-    d: 2.3,
-    source: Cow::Borrowed(ALTERMATT_SOURCE),
-};
-/// Arsenic in silicon: 53.7 meV, 4e18 cm^-3, 1.5, 1.4e19 cm^-3, 3.
-pub const ALTERMATT_SI_ARSENIC: AltermattParameters = AltermattParameters {
-    e0_ev: 0.0537,
-    n_ref_cm3: 4e18,
-    c: 1.5,
-    n_b_cm3: 1.4e19,
-    d: 3.0,
-    source: Cow::Borrowed(ALTERMATT_SOURCE),
-};
-/// Boron in silicon: 44.39 meV, 1.7e18 cm^-3, 1.4, 6e18 cm^-3, 2.4.
-pub const ALTERMATT_SI_BORON: AltermattParameters = AltermattParameters {
-    e0_ev: 0.04439,
-    n_ref_cm3: 1.7e18,
-    c: 1.4,
-    n_b_cm3: 6e18,
-    d: 2.4,
-    source: Cow::Borrowed(ALTERMATT_SOURCE),
-};
-
 impl AltermattParameters {
     /// E(N) = E0 / (1 + (N/N_ref)^c), eV; E0 at N = 0, > 0 for every finite N.
     ///
@@ -301,25 +236,6 @@ impl AltermattParameters {
     /// 1 - b(N) = x/(1 + x), x = (N/N_b)^d, without the cancellation of 1 - b at low N.
     pub fn delocalized_fraction(&self, density_cm3: f64) -> f64 {
         fractions(ratio_power(density_cm3, self.n_b_cm3, self.d)).1
-    }
-
-    /// The first field outside its allowed range: (name, value, what is allowed).
-    pub fn invalid_field(&self) -> Option<(&'static str, f64, &'static str)> {
-        // Plain tests in field order (every solve validates its dopants).
-        let positive = |v: f64| v.is_finite() && v > 0.0;
-        if !(self.e0_ev.is_finite() && self.e0_ev >= 0.0) {
-            Some(("e0_ev", self.e0_ev, "a finite value >= 0 eV"))
-        } else if !positive(self.n_ref_cm3) {
-            Some(("n_ref_cm3", self.n_ref_cm3, "a finite value > 0 cm^-3"))
-        } else if !positive(self.c) {
-            Some(("c", self.c, "a finite value > 0"))
-        } else if !positive(self.n_b_cm3) {
-            Some(("n_b_cm3", self.n_b_cm3, "a finite value > 0 cm^-3"))
-        } else if !positive(self.d) {
-            Some(("d", self.d, "a finite value > 0"))
-        } else {
-            None
-        }
     }
 }
 
@@ -342,28 +258,6 @@ fn fractions(x: f64) -> (f64, f64) {
     }
 }
 
-/// The Pearson-Bardeen alpha values of a host material ([`Material::pearson_bardeen`]).
-///
-/// # Formula
-/// E(N) = E0 - alpha N^(1/3), alpha in eV cm, N in cm^-3 ([`pearson_bardeen_level_ev`]).
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct PearsonBardeenParameters {
-    /// alpha for donors, eV cm.
-    pub donor_alpha_ev_cm: f64,
-    /// alpha for acceptors, eV cm.
-    pub acceptor_alpha_ev_cm: f64,
-    /// Where the values come from.
-    pub source: Cow<'static, str>,
-}
-
-/// Silicon: alpha 3.1e-8 eV cm for donors, 3.037e-8 eV cm for acceptors (widely used
-/// defaults, from memory; the form is Pearson & Bardeen's, Phys. Rev. 75, 865 (1949)).
-pub const PEARSON_BARDEEN_SILICON: PearsonBardeenParameters = PearsonBardeenParameters {
-    donor_alpha_ev_cm: 3.1e-8,
-    acceptor_alpha_ev_cm: 3.037e-8,
-    source: Cow::Borrowed(PEARSON_BARDEEN_SOURCE),
-};
-
 impl PearsonBardeenParameters {
     /// alpha for `kind`, eV cm.
     pub fn alpha_ev_cm(&self, kind: DopantKind) -> f64 {
@@ -371,17 +265,6 @@ impl PearsonBardeenParameters {
             DopantKind::Donor => self.donor_alpha_ev_cm,
             DopantKind::Acceptor => self.acceptor_alpha_ev_cm,
         }
-    }
-
-    /// The first field outside its allowed range: (name, value, what is allowed).
-    pub fn invalid_field(&self) -> Option<(&'static str, f64, &'static str)> {
-        [
-            ("donor_alpha_ev_cm", self.donor_alpha_ev_cm),
-            ("acceptor_alpha_ev_cm", self.acceptor_alpha_ev_cm),
-        ]
-        .into_iter()
-        .find(|&(_, v)| !(v.is_finite() && v >= 0.0))
-        .map(|(name, v)| (name, v, "a finite value >= 0 eV cm"))
     }
 }
 

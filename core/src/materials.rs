@@ -12,11 +12,10 @@ use std::fmt;
 
 use serde::{Deserialize, Serialize};
 
-use crate::bandgap::Varshni;
-use crate::bgn::SlotboomParams;
-use crate::dos::PowerLaw;
-use crate::intrinsic::{self, IntrinsicFit};
-use crate::ionization::{self, AltermattParameters, PearsonBardeenParameters};
+use crate::params::{
+    self, AltermattParameters, IntrinsicFit, PearsonBardeenParameters, PowerLaw, SlotboomParams,
+    Varshni,
+};
 
 /// Donor or acceptor.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
@@ -184,23 +183,6 @@ pub struct Material {
 }
 
 impl Material {
-    /// Intrinsic density in cm^-3 at `temperature_k` from the Varshni gap and
-    /// Nc, Nv (Boltzmann statistics, no validation; NaN or 0 outside T > 0).
-    ///
-    /// # Formula
-    /// ni = sqrt(Nc(T) Nv(T)) exp(-Eg(T) / 2kT).
-    ///
-    /// For the selectable models and validated input use
-    /// [`intrinsic::intrinsic_density`].
-    pub fn intrinsic_density_cm3(&self, temperature_k: f64) -> f64 {
-        intrinsic::from_dos_cm3(
-            self.nc.at(temperature_k),
-            self.nv.at(temperature_k),
-            self.varshni.band_gap_ev(temperature_k),
-            temperature_k,
-        )
-    }
-
     /// The dopant with `symbol` (case-insensitive: "P", "b").
     ///
     /// # Errors
@@ -524,17 +506,11 @@ pub fn silicon() -> Material {
             // the density-dependent sets of P, As and B (see crate::ionization).
             with_altermatt(
                 dopant("P", Donor, 45.0, SZE),
-                ionization::ALTERMATT_SI_PHOSPHORUS,
+                params::ALTERMATT_SI_PHOSPHORUS,
             ),
-            with_altermatt(
-                dopant("As", Donor, 54.0, SZE),
-                ionization::ALTERMATT_SI_ARSENIC,
-            ),
+            with_altermatt(dopant("As", Donor, 54.0, SZE), params::ALTERMATT_SI_ARSENIC),
             dopant("Sb", Donor, 39.0, SZE),
-            with_altermatt(
-                dopant("B", Acceptor, 45.0, SZE),
-                ionization::ALTERMATT_SI_BORON,
-            ),
+            with_altermatt(dopant("B", Acceptor, 45.0, SZE), params::ALTERMATT_SI_BORON),
             dopant("Al", Acceptor, 67.0, SZE),
             dopant("Ga", Acceptor, 72.0, SZE),
             dopant("In", Acceptor, 160.0, SZE),
@@ -550,9 +526,9 @@ pub fn silicon() -> Material {
         },
         // Source: Pearson & Bardeen, Phys. Rev. 75, 865 (1949) form; alpha 3.1e-8 eV cm
         // (donors), 3.037e-8 eV cm (acceptors): widely used defaults (from memory).
-        pearson_bardeen: Some(ionization::PEARSON_BARDEEN_SILICON),
-        intrinsic_fit: Some(intrinsic::misiakos_tsamakis_1993()),
-        band_gap_narrowing: Some(crate::bgn::slotboom_de_graaff_1977()),
+        pearson_bardeen: Some(params::PEARSON_BARDEEN_SILICON),
+        intrinsic_fit: Some(params::misiakos_tsamakis_1993()),
+        band_gap_narrowing: Some(params::slotboom_de_graaff_1977()),
     }
 }
 
