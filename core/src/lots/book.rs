@@ -14,7 +14,7 @@ use crate::empirical::{
     EMPIRICAL_REFERENCE, EMPIRICAL_TEMPERATURE_K, EmpiricalRelation, density_from_resistivity_cm3,
 };
 use crate::lots::columns::Column;
-use crate::lots::reader::{Measurement, RowCounts, RowRejection, Site};
+use crate::lots::reader::{Measurement, RowCounts, RowRejection, Site, SiteSink};
 use crate::lots::stats::{
     KruskalWallis, MedianSketch, Moments, Summary, WelchTest, holm_adjusted, kruskal_wallis,
     welch_t_test,
@@ -314,6 +314,17 @@ impl LotBook {
             probe_rows: self.probe_rows,
             notes,
         }
+    }
+}
+
+/// The book collects what a [`LotReader`](crate::lots::LotReader) reads.
+impl SiteSink for LotBook {
+    fn accept(&mut self, site: &Site<'_>) -> Result<(), RowRejection> {
+        LotBook::accept(self, site)
+    }
+
+    fn count_rejected(&mut self) {
+        LotBook::count_rejected(self);
     }
 }
 

@@ -45,7 +45,7 @@ pub use book::{
 pub use columns::Column;
 pub use reader::{
     LotFileError, LotReader, MAX_LINE_BYTES, Measurement, ReadOptions, RowCounts, RowOutcome,
-    RowRejection, Site, parse_dopant,
+    RowRejection, Site, SiteSink, parse_dopant,
 };
 pub use stats::Summary;
 pub use verdict::{Judgement, SpecError, SpecQuantity, SpecWindow, Verdict};

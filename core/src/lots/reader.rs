@@ -8,7 +8,6 @@
 use std::fmt;
 
 use crate::empirical::{EmpiricalRelation, density_from_resistivity_cm3};
-use crate::lots::book::LotBook;
 use crate::lots::columns::{Column, header_unit, normalise_name, split_name_and_unit, unit_entry};
 use crate::mobility::ConductivityType;
 use crate::probe::{self, ProbeGeometry, ProbeReading};
@@ -171,6 +170,20 @@ impl RowCounts {
         self.converted += other.converted;
         self.rejected += other.rejected;
     }
+}
+
+/// Where a [`LotReader`] puts the rows it reads: the reader produces sites, the sink collects
+/// them. [`LotBook`](crate::lots::LotBook) is the sink this crate provides.
+pub trait SiteSink {
+    /// Takes one converted site, or refuses it with the reason (the row is then counted as
+    /// rejected).
+    ///
+    /// # Errors
+    /// A [`RowRejection`] when the site cannot join what was collected so far.
+    fn accept(&mut self, site: &Site<'_>) -> Result<(), RowRejection>;
+
+    /// Counts one row the reader rejected itself (the site never reached [`SiteSink::accept`]).
+    fn count_rejected(&mut self);
 }
 
 /// Why a file cannot be read at all.
@@ -391,7 +404,7 @@ impl LotReader {
     pub fn feed(
         &mut self,
         chunk: &[u8],
-        book: &mut LotBook,
+        book: &mut dyn SiteSink,
         on_row: &mut dyn FnMut(RowOutcome<'_, '_>),
     ) -> Result<(), LotFileError> {
         let mut rest = chunk;
@@ -426,7 +439,7 @@ impl LotReader {
     /// [`LotFileError::NoHeader`] when the file had no header; otherwise as [`LotReader::feed`].
     pub fn finish(
         &mut self,
-        book: &mut LotBook,
+        book: &mut dyn SiteSink,
         on_row: &mut dyn FnMut(RowOutcome<'_, '_>),
     ) -> Result<RowCounts, LotFileError> {
         if !self.pending.is_empty() {
@@ -451,7 +464,7 @@ impl LotReader {
     fn take_line(
         &mut self,
         raw: &[u8],
-        book: &mut LotBook,
+        book: &mut dyn SiteSink,
         on_row: &mut dyn FnMut(RowOutcome<'_, '_>),
     ) -> Result<(), LotFileError> {
         self.line += 1;
@@ -533,7 +546,7 @@ impl LotReader {
     fn reject(
         &mut self,
         rejection: RowRejection,
-        book: &mut LotBook,
+        book: &mut dyn SiteSink,
         on_row: &mut dyn FnMut(RowOutcome<'_, '_>),
     ) {
         book.count_rejected();
@@ -1281,6 +1294,7 @@ fn resolve_dopant(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::lots::LotBook;
 
     fn split(line: &str, delimiter: u8) -> Result<Vec<String>, String> {
         let mut fields = Fields::default();
