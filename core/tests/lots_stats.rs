@@ -3,7 +3,7 @@
 
 use bandgauge_core::lots::stats::{
     EXACT_MEDIAN_LIMIT, MEDIAN_BIN_RELATIVE_WIDTH, MedianSketch, Moments, StatsError, Summary,
-    chi_squared_survival, holm_adjusted, kruskal_wallis, ln_gamma, regularized_gamma_q,
+    chi_squared_survival, holm_adjusted, kruskal_wallis, ln_gamma, quartiles, regularized_gamma_q,
     regularized_incomplete_beta, student_t_cdf, student_t_pdf, student_t_quantile,
     student_t_two_sided_p, welch_t_test,
 };
@@ -724,4 +724,36 @@ fn lot_pairs_are_called_significant_on_the_holm_adjusted_p() {
             .filter(|d| !with_c(d))
             .all(|d| !d.significant)
     );
+}
+
+#[test]
+fn quartiles_follow_the_inclusive_linear_definition() {
+    // Source: Python 3.11.7 statistics.quantiles(data, n=4, method="inclusive") (definition 7 of
+    // Hyndman and Fan, The American Statistician 50, 361 (1996)), run here.
+    let cases: [(&[f64], [f64; 3]); 3] = [
+        (&[7.0, 1.0, 3.0, 2.0, 5.0], [2.0, 3.0, 5.0]),
+        (
+            &[10.2, 9.8, 10.5, 10.1],
+            [10.024999999999999, 10.149999999999999, 10.274999999999999],
+        ),
+        (&[4.0], [4.0, 4.0, 4.0]),
+    ];
+    for (values, expected) in cases {
+        let (q1, q2, q3) = quartiles(values).expect("finite values");
+        for (got, want) in [q1, q2, q3].into_iter().zip(expected) {
+            close(
+                got,
+                want,
+                CLOSED_FORM_RELATIVE,
+                &format!("quartiles of {values:?}"),
+            );
+        }
+    }
+    // Non-finite values are left out; nothing finite gives no quartiles.
+    assert_eq!(
+        quartiles(&[f64::NAN, 2.0, f64::INFINITY]),
+        Some((2.0, 2.0, 2.0))
+    );
+    assert_eq!(quartiles(&[f64::NAN]), None);
+    assert_eq!(quartiles(&[]), None);
 }

@@ -12,6 +12,7 @@
 //!   [`chi_squared_survival`].
 //! - [`welch_t_test`] -> [`WelchTest`]; [`kruskal_wallis`] -> [`KruskalWallis`]; [`StatsError`].
 //! - [`holm_adjusted`]: Holm's step-down family-wise adjustment of a family of p-values.
+//! - [`quartiles`]: the lower quartile, median and upper quartile of a few values.
 
 use std::collections::BTreeMap;
 use std::fmt;
@@ -856,6 +857,39 @@ pub fn kruskal_wallis(groups: &[&[f64]]) -> Result<KruskalWallis, StatsError> {
         groups: groups.len(),
         values: all.len(),
     })
+}
+
+/// The lower quartile, median and upper quartile of `values` (any order; non-finite values
+/// are left out), or `None` when no finite value is given. Used for the middle half of the
+/// wafer means of a lot, a few hundred values at most: the values are copied and sorted.
+///
+/// # Formula
+/// For sorted values x_1..x_n, Q(p) = x_j + g (x_{j+1} - x_j) with h = (n - 1) p,
+/// j = floor(h) + 1 and g = h - floor(h): linear interpolation between order statistics
+/// (definition 7 of Hyndman and Fan; the default of R, NumPy and Python's
+/// `statistics.quantiles(method="inclusive")`).
+///
+/// # Validity
+/// Exact for every n >= 1 (n = 1 gives the value three times).
+///
+/// # References
+/// Hyndman and Fan, The American Statistician 50, 361 (1996), definition 7.
+///
+/// # Errors
+/// None; `None` for no finite value.
+pub fn quartiles(values: &[f64]) -> Option<(f64, f64, f64)> {
+    let mut sorted: Vec<f64> = values.iter().copied().filter(|v| v.is_finite()).collect();
+    if sorted.is_empty() {
+        return None;
+    }
+    sorted.sort_by(f64::total_cmp);
+    let at = |p: f64| {
+        let h = (sorted.len() - 1) as f64 * p;
+        let j = h.floor() as usize;
+        let next = sorted[(j + 1).min(sorted.len() - 1)];
+        sorted[j] + (h - h.floor()) * (next - sorted[j])
+    };
+    Some((at(0.25), at(0.5), at(0.75)))
 }
 
 #[cfg(test)]
