@@ -283,6 +283,7 @@ pub fn band_diagram(outcome: &Outcome) -> ChartSpec {
             log: false,
             range: Some((0.0, 1.0)),
             hidden: true,
+            categories: Vec::new(),
         },
         y: Axis::linear("Energy above Ev (eV)"),
         series,

@@ -61,6 +61,9 @@ pub struct Axis {
     pub range: Option<(f64, f64)>,
     /// Hide ticks and labels (the position axis of the band diagram has no meaning).
     pub hidden: bool,
+    /// Names of the categories at positions 1, 2, ... n, written as the tick labels instead of
+    /// numbers (every k-th when they would overlap); empty for a numeric axis.
+    pub categories: Vec<String>,
 }
 
 impl Axis {
@@ -71,7 +74,19 @@ impl Axis {
             log: false,
             range: None,
             hidden: false,
+            categories: Vec::new(),
         }
+    }
+
+    /// A category axis: `names` at positions 1, 2, ... n (range 0.5 to n + 0.5), each written
+    /// under its position.
+    pub fn categories(label: &str, names: Vec<String>) -> Axis {
+        let right = names.len() as f64 + 0.5;
+        Axis {
+            categories: names,
+            ..Axis::linear(label)
+        }
+        .with_range(0.5, right)
     }
 
     /// A log axis fitted to the data.
@@ -81,6 +96,7 @@ impl Axis {
             log: true,
             range: None,
             hidden: false,
+            categories: Vec::new(),
         }
     }
 
@@ -147,6 +163,20 @@ impl Series {
     }
 }
 
+/// The shape of a [`Mark::Symbol`]: shapes that stay apart in greyscale and for colour-blind
+/// readers, so a meaning given by colour is also given by shape.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Shape {
+    /// A filled disc.
+    Circle,
+    /// A filled triangle, point up.
+    Triangle,
+    /// A diagonal cross.
+    Cross,
+    /// An open diamond.
+    Diamond,
+}
+
 /// An annotation that is not a data series.
 #[derive(Clone, Debug, PartialEq)]
 pub enum Mark {
@@ -168,6 +198,126 @@ pub enum Mark {
         /// Colour.
         color: Color,
     },
+    /// A symbol without text: its shape and colour carry its meaning, told in words by `key`
+    /// in the key row under the plot (symbols sharing a key are listed once).
+    Symbol {
+        /// x in data units.
+        x: f64,
+        /// y in data units.
+        y: f64,
+        /// Shape.
+        shape: Shape,
+        /// Colour.
+        color: Color,
+        /// Drawn large (a lot's median) rather than small (one wafer among many).
+        large: bool,
+        /// Meaning, for the key row; empty: not in the key.
+        key: String,
+    },
+    /// A box from `lo` to `hi` centred on `x`, with a tick across it at `mid`.
+    Span {
+        /// Centre in data units.
+        x: f64,
+        /// Half the box width in data units.
+        half_width: f64,
+        /// Lower end in data units.
+        lo: f64,
+        /// Upper end in data units.
+        hi: f64,
+        /// The tick across the box, if any.
+        mid: Option<f64>,
+        /// Colour.
+        color: Color,
+    },
+}
+
+/// Least width (CSS pixels) per category of a category axis; a chart with more categories than
+/// fit at this width is drawn wider than its panel, which then scrolls.
+pub const MIN_CATEGORY_PX: u32 = 56;
+/// Room (CSS pixels) around the plot of a category chart: the y axis and the right margin.
+const CATEGORY_CHART_FRAME_PX: u32 = 180;
+
+impl ChartSpec {
+    /// The least width (CSS pixels) at which every category keeps [`MIN_CATEGORY_PX`]; `None`
+    /// for a chart without a category axis.
+    pub fn min_width_css(&self) -> Option<u32> {
+        let n = u32::try_from(self.x.categories.len()).ok()?;
+        (n > 0).then(|| n.saturating_mul(MIN_CATEGORY_PX) + CATEGORY_CHART_FRAME_PX)
+    }
+}
+
+/// Every how many categories a label is written so that labels `widest` pixels wide (gap
+/// included) never overlap when categories are `slot` pixels apart: 1 when they all fit.
+fn category_step(widest: i32, slot: i32) -> usize {
+    if slot <= 0 {
+        return usize::MAX;
+    }
+    usize::try_from((widest + slot - 1) / slot)
+        .unwrap_or(1)
+        .max(1)
+}
+
+/// The distinct keys of the symbols, in the order they first appear.
+fn symbol_keys(marks: &[Mark]) -> Vec<(&str, Shape, Color)> {
+    let mut keys: Vec<(&str, Shape, Color)> = Vec::new();
+    for mark in marks {
+        if let Mark::Symbol {
+            key, shape, color, ..
+        } = mark
+            && !key.is_empty()
+            && !keys.iter().any(|k| k.0 == key)
+        {
+            keys.push((key.as_str(), *shape, *color));
+        }
+    }
+    keys
+}
+
+/// Draws a symbol centred at `at` (pixels), `r` pixels from centre to edge.
+fn draw_symbol<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    at: (i32, i32),
+    shape: Shape,
+    r: i32,
+    color: Color,
+    stroke: u32,
+) -> Result<(), DrawingAreaErrorKind<DB::ErrorType>> {
+    let c = color.rgb();
+    let line = ShapeStyle::from(&c).stroke_width(stroke);
+    let (x, y) = at;
+    match shape {
+        Shape::Circle => area.draw(&Circle::new(at, r, ShapeStyle::from(&c).filled())),
+        Shape::Triangle => {
+            // A little larger than the disc, so both cover about the same area.
+            let t = r * 6 / 5;
+            area.draw(&Polygon::new(
+                vec![
+                    (x, y - t),
+                    (x + t * 7 / 8, y + t / 2),
+                    (x - t * 7 / 8, y + t / 2),
+                ],
+                ShapeStyle::from(&c).filled(),
+            ))
+        }
+        Shape::Cross => {
+            area.draw(&PathElement::new(
+                vec![(x - r, y - r), (x + r, y + r)],
+                line,
+            ))?;
+            area.draw(&PathElement::new(
+                vec![(x - r, y + r), (x + r, y - r)],
+                line,
+            ))
+        }
+        Shape::Diamond => {
+            let corners = vec![(x, y - r), (x + r, y), (x, y + r), (x - r, y), (x, y - r)];
+            area.draw(&Polygon::new(
+                corners.clone(),
+                ShapeStyle::from(&WHITE).filled(),
+            ))?;
+            area.draw(&PathElement::new(corners, line))
+        }
+    }
 }
 
 /// Where the legend sits.
@@ -303,7 +453,10 @@ pub fn draw<DB: DrawingBackend>(
         .iter()
         .flat_map(|s| s.points.iter().map(|p| p.1));
     let marks_x = spec.marks.iter().map(|m| match m {
-        Mark::Vertical { x, .. } | Mark::Point { x, .. } => *x,
+        Mark::Vertical { x, .. }
+        | Mark::Point { x, .. }
+        | Mark::Symbol { x, .. }
+        | Mark::Span { x, .. } => *x,
     });
     let (Some(x_range), Some(y_range)) = (
         scale_range(&spec.x, xs.chain(marks_x)),
@@ -319,16 +472,37 @@ pub fn draw<DB: DrawingBackend>(
         return Ok(());
     };
 
-    let mut chart = ChartBuilder::on(area)
+    let keys = symbol_keys(&spec.marks);
+    let categories = !spec.x.categories.is_empty();
+    let x_label_room = if spec.x.hidden {
+        8.0
+    } else if categories {
+        // One row of names; the axis name is left out (the names say what they are).
+        24.0
+    } else {
+        44.0
+    } + if keys.is_empty() { 0.0 } else { KEY_ROW_PX };
+    let mut builder = ChartBuilder::on(area);
+    builder
         .margin(size(10.0))
         .margin_right(size(if spec.series.iter().any(|s| s.end_label.is_some()) {
             90.0
         } else {
             18.0
         }))
-        .caption(&spec.title, font(15.0))
-        .x_label_area_size(size(if spec.x.hidden { 8.0 } else { 44.0 }))
-        .y_label_area_size(size(72.0))
+        .x_label_area_size(size(x_label_room))
+        .y_label_area_size(size(72.0));
+    if categories {
+        // A category chart may be wider than its panel: its title starts at the left, where
+        // the panel opens, instead of centred out of view.
+        builder.margin_top(size(10.0 + TITLE_ROW_PX));
+        let style = TextStyle::from(font(15.0)).color(&BLACK);
+        area.draw_text(&spec.title, &style, (size(12.0) as i32, size(10.0) as i32))
+            .map_err(err)?;
+    } else {
+        builder.caption(&spec.title, font(15.0));
+    }
+    let mut chart = builder
         .build_cartesian_2d(x_range.0..x_range.1, y_range.0..y_range.1)
         .map_err(err)?;
 
@@ -362,7 +536,60 @@ pub fn draw<DB: DrawingBackend>(
     if spec.x.hidden {
         mesh.disable_x_axis().disable_x_mesh();
     }
+    if categories {
+        // The names are written below, one per category, instead of numeric ticks.
+        mesh.disable_x_mesh().x_labels(0).x_desc("");
+    }
     mesh.draw().map_err(err)?;
+
+    if categories {
+        let style = TextStyle::from(font(12.0)).color(&RGBColor(0x22, 0x22, 0x22));
+        let first = chart.backend_coord(&(1.0, y_range.0));
+        let slot = chart.backend_coord(&(2.0, y_range.0)).0 - first.0;
+        let widths = spec
+            .x
+            .categories
+            .iter()
+            .map(|name| {
+                area.estimate_text_size(name, &style)
+                    .map(|(w, _)| i32::try_from(w).unwrap_or(i32::MAX))
+            })
+            .collect::<Result<Vec<i32>, _>>()
+            .map_err(err)?;
+        let widest = widths.iter().copied().max().unwrap_or(0) + size(8.0) as i32;
+        let step = if widths.len() > 1 {
+            category_step(widest, slot)
+        } else {
+            1
+        };
+        for (i, (name, w)) in spec.x.categories.iter().zip(&widths).enumerate() {
+            if i % step != 0 {
+                continue;
+            }
+            let at = chart.backend_coord(&((i + 1) as f64, y_range.0));
+            area.draw_text(name, &style, (at.0 - w / 2, at.1 + size(6.0) as i32))
+                .map_err(err)?;
+        }
+    }
+    if !keys.is_empty() {
+        let style = TextStyle::from(font(12.0)).color(&RGBColor(0x22, 0x22, 0x22));
+        let (left, _) = chart.backend_coord(&(x_range.0, y_range.0));
+        let (_, height) = area.dim_in_pixel();
+        let y = i32::try_from(height).unwrap_or(i32::MAX) - size(KEY_ROW_PX / 2.0) as i32;
+        let r = size(5.0) as i32;
+        let mut x = left;
+        for (text, shape, color) in &keys {
+            draw_symbol(area, (x + r, y), *shape, r, *color, size(2.0).max(1)).map_err(err)?;
+            area.draw_text(
+                text,
+                &style,
+                (x + 2 * r + size(5.0) as i32, y - size(7.0) as i32),
+            )
+            .map_err(err)?;
+            let (w, _) = area.estimate_text_size(text, &style).map_err(err)?;
+            x += 2 * r + size(5.0 + 16.0) as i32 + i32::try_from(w).unwrap_or(0);
+        }
+    }
 
     let line_width = size(2.0).max(1);
     let mut end_labels: Vec<(&str, Color, (i32, i32))> = Vec::new();
@@ -473,6 +700,63 @@ pub fn draw<DB: DrawingBackend>(
                 )
                 .map_err(err)?;
             }
+            Mark::Span {
+                x,
+                half_width,
+                lo,
+                hi,
+                mid,
+                color,
+            } => {
+                let (Some(x), Some(lo), Some(hi)) = (
+                    spec.x.to_scale(*x),
+                    spec.y.to_scale(*lo),
+                    spec.y.to_scale(*hi),
+                ) else {
+                    continue;
+                };
+                let c = color.rgb();
+                let corners = [(x - half_width, lo), (x + half_width, hi)];
+                chart
+                    .draw_series([
+                        Rectangle::new(corners, ShapeStyle::from(&WHITE).filled()),
+                        Rectangle::new(corners, c.mix(0.18).filled()),
+                        Rectangle::new(corners, ShapeStyle::from(&c).stroke_width(line_width)),
+                    ])
+                    .map_err(err)?;
+                if let Some(m) = mid.and_then(|m| spec.y.to_scale(m)) {
+                    let style = ShapeStyle::from(&c).stroke_width(size(3.0).max(1));
+                    chart
+                        .draw_series(LineSeries::new(
+                            [(x - half_width, m), (x + half_width, m)],
+                            style,
+                        ))
+                        .map_err(err)?;
+                }
+            }
+            Mark::Symbol {
+                x,
+                y,
+                shape,
+                color,
+                large,
+                ..
+            } => {
+                let (Some(x), Some(y)) = (spec.x.to_scale(*x), spec.y.to_scale(*y)) else {
+                    continue;
+                };
+                let (r, stroke) = if *large { (6.0, 2.5) } else { (3.0, 1.5) };
+                let at = chart.backend_coord(&(x, y));
+                draw_symbol(
+                    area,
+                    at,
+                    *shape,
+                    size(r) as i32,
+                    *color,
+                    size(stroke).max(1),
+                )
+                .map_err(err)?;
+            }
         }
     }
 
@@ -496,6 +780,11 @@ pub fn draw<DB: DrawingBackend>(
     }
     Ok(())
 }
+
+/// Height (CSS pixels) of the key row under a plot whose symbols carry keys.
+const KEY_ROW_PX: f64 = 24.0;
+/// Height (CSS pixels) of the title row of a category chart.
+const TITLE_ROW_PX: f64 = 22.0;
 
 /// Moves label tops (pixels, any order) the least needed so that any two are at least `gap`
 /// apart, keeping their order; returns them in the given order.
@@ -689,6 +978,54 @@ mod tests {
             placed[1] < placed[3] && placed[3] < placed[2],
             "order kept: {placed:?}"
         );
+    }
+
+    #[test]
+    fn category_labels_are_thinned_until_none_overlap() {
+        // Labels 50 px wide: every one fits 60 px apart, every second 30 px apart.
+        assert_eq!(category_step(50, 60), 1);
+        assert_eq!(category_step(50, 50), 1);
+        assert_eq!(category_step(50, 30), 2);
+        assert_eq!(category_step(50, 7), 8);
+        for (widest, slot) in [(50, 30), (83, 11), (120, 56), (5, 1)] {
+            let step = category_step(widest, slot);
+            assert!(step as i32 * slot >= widest, "{widest} {slot} -> {step}");
+            assert!(step == 1 || (step as i32 - 1) * slot < widest, "least step");
+        }
+        assert_eq!(category_step(50, 0), usize::MAX);
+    }
+
+    #[test]
+    fn a_category_axis_spans_its_names_and_asks_for_room() {
+        let names: Vec<String> = (1..=24).map(|i| format!("L-{i}")).collect();
+        let mut s = spec(vec![]);
+        s.x = Axis::categories("lot", names);
+        assert_eq!(s.x.range, Some((0.5, 24.5)));
+        assert_eq!(
+            s.min_width_css(),
+            Some(24 * MIN_CATEGORY_PX + CATEGORY_CHART_FRAME_PX)
+        );
+        assert_eq!(spec(vec![]).min_width_css(), None);
+    }
+
+    #[test]
+    fn symbols_sharing_a_key_are_listed_once_in_order() {
+        let symbol = |key: &str, shape| Mark::Symbol {
+            x: 1.0,
+            y: 1.0,
+            shape,
+            color: palette::BAND,
+            large: true,
+            key: key.into(),
+        };
+        let marks = [
+            symbol("fail", Shape::Cross),
+            symbol("", Shape::Circle),
+            symbol("pass", Shape::Circle),
+            symbol("fail", Shape::Cross),
+        ];
+        let keys: Vec<&str> = symbol_keys(&marks).into_iter().map(|k| k.0).collect();
+        assert_eq!(keys, ["fail", "pass"]);
     }
 
     #[test]

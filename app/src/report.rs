@@ -535,7 +535,12 @@ mod tests {
         let report = work.report(spec.as_ref());
         let wafers = report_wafers(&report);
         let lots: Vec<&str> = wafers.iter().map(|(lot, _)| *lot).collect();
-        assert_eq!(lots, ["C2-4417", "C2-4418", "C2-4421", "C2-4425"]);
+        assert_eq!(
+            lots,
+            [
+                "C2-4417", "C2-4418", "C2-4421", "C2-4425", "C2-4429", "C2-4432"
+            ]
+        );
         // Source: demo-wafers/README.md (the invented scenario): wafer 07 decides C2-4425.
         assert_eq!(wafers[3], ("C2-4425", "07"));
         for (l, (lot, wafer)) in report.lots.iter().zip(&wafers) {
@@ -545,7 +550,7 @@ mod tests {
         let plain = work.report(None);
         let first: Vec<(&str, &str)> = report_wafers(&plain);
         assert_eq!(first[0], ("C2-4417", "01"));
-        assert_eq!(first.len(), 4);
+        assert_eq!(first.len(), 6);
     }
 
     fn demo_snapshot(read_whole: bool) -> LotsSnapshot {
@@ -590,9 +595,9 @@ mod tests {
         let snapshot = demo_snapshot(true);
         let record = record_of_page(lots_workbench(), Some(&snapshot), CREATED).expect("record");
         let files = &record.inputs.lots.as_ref().expect("lots").files;
-        assert_eq!(files.len(), 4);
+        assert_eq!(files.len(), 6);
         assert_eq!(files[2].text, DEMO_FILES[2].1);
-        assert_eq!(lot_totals(&record), Some((605, 598, 7)));
+        assert_eq!(lot_totals(&record), Some((1046, 1039, 7)));
         let (back, replayed) = open_record(&record::to_json(&record)).expect("reopens");
         assert_eq!(back, record);
         assert_eq!(
@@ -644,8 +649,8 @@ mod tests {
             (View::Carriers, 1),
             (View::Sweep, 3),
             (View::Resistivity, 1),
-            // The distribution chart and a wafer map for each of the four demo lots.
-            (View::Lots, 5),
+            // The distribution chart and a wafer map for each of the six demo lots.
+            (View::Lots, 7),
         ] {
             let snapshot = demo_snapshot(true);
             let lots = (view == View::Lots).then_some(&snapshot);

@@ -192,9 +192,18 @@ pub fn ChartPanel(
         }
     };
     let title = move || spec.with(|s| s.as_ref().map(|s| s.title.clone()).unwrap_or_default());
+    // A chart of many categories keeps its least width per category; its box then scrolls
+    // sideways, and the PNG is the whole canvas.
+    let min_width = move || {
+        spec.with(|s| s.as_ref().and_then(ChartSpec::min_width_css))
+            .map(|w| format!("{w}px"))
+    };
     view! {
         <figure class="chart">
-            <canvas node_ref=canvas data-testid=id role="img" aria-label=title></canvas>
+            <div class="chart-scroll" data-testid=format!("{id}-scroll")>
+                <canvas node_ref=canvas data-testid=id role="img" aria-label=title
+                    style:min-width=min_width></canvas>
+            </div>
             <figcaption>
                 <button type="button" data-testid=format!("{id}-png") on:click=save_png
                     aria-label=move || format!("Save chart '{}' as PNG image", title())>"PNG"</button>

@@ -7,9 +7,11 @@
 use bandgauge_core::lots::{
     LotBook, ReadOptions, RowCounts, RowOutcome, SpecQuantity, SpecWindow, Verdict, read_str,
 };
-use bandgauge_tests::browser::{by_testid, screenshot, text_until, with_browser};
+use bandgauge_tests::browser::{by_testid, retype, screenshot, text_until, with_browser};
 use bandgauge_tests::lot_rows::LotRows;
-use bandgauge_tests::ui::{TempFile, canvas_drawn, choose, click, run_script, text_of};
+use bandgauge_tests::ui::{
+    TempFile, canvas_drawn, choose, click, record_downloads, run_script, text_of,
+};
 use fantoccini::{Client, Locator};
 use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
@@ -30,11 +32,13 @@ const READ_WAIT: Duration = Duration::from_secs(60);
 const DEMO_WINDOW: &str = "8:12";
 
 /// The demo files, in the order the page reads them.
-const DEMO_FILES: [&str; 4] = [
+const DEMO_FILES: [&str; 6] = [
     "c2-4417.csv",
     "c2-4418.csv",
     "c2-4421.tsv",
     "c2-4425-with-bad-rows.csv",
+    "c2-4429-radial.csv",
+    "c2-4432-hot-spot.csv",
 ];
 
 fn demo_dir() -> PathBuf {
@@ -199,13 +203,15 @@ async fn demo_lots_show_the_scenario_verdicts_and_rejected_lines() {
         screenshot(&client, "lots-empty-1366").await;
         let expected = load_demo(&client).await;
 
-        // The scenario is the specification: pass, pass, fail, marginal, 7 bad rows.
+        // The scenario is the specification: pass, pass, fail, marginal, pass, pass, 7 bad rows.
         // Source: demo-wafers/README.md (invented scenario of this project).
         let intended = [
             ("C2-4417", Verdict::Pass),
             ("C2-4418", Verdict::Pass),
             ("C2-4421", Verdict::Fail),
             ("C2-4425", Verdict::Marginal),
+            ("C2-4429", Verdict::Pass),
+            ("C2-4432", Verdict::Pass),
         ];
         let core: Vec<(String, Option<Verdict>)> = intended
             .iter()
@@ -237,7 +243,7 @@ async fn demo_lots_show_the_scenario_verdicts_and_rejected_lines() {
 
         let status = text_of(&client, "lots-status").await;
         let c = expected.counts;
-        assert_eq!((c.read, c.converted, c.rejected), (605, 598, 7));
+        assert_eq!((c.read, c.converted, c.rejected), (1046, 1039, 7));
         assert!(
             status.contains(&format!(
                 "{} rows read, {} converted, {} rejected",
@@ -492,7 +498,7 @@ async fn imported_file_lists_bad_rows_by_line_and_summarises_the_good_ones() {
 #[tokio::test(flavor = "multi_thread")]
 async fn a_notes_file_among_lot_files_is_skipped_and_pairs_show_holm_adjusted_p() {
     with_browser(LAPTOP.0, LAPTOP.1, |client, base| async move {
-        // The demo folder as a user picks it: four lot files and the folder's README.md.
+        // The demo folder as a user picks it: six lot files and the folder's README.md.
         let texts = demo_texts();
         let files: Vec<TempFile> = texts
             .iter()
@@ -515,7 +521,7 @@ async fn a_notes_file_among_lot_files_is_skipped_and_pairs_show_holm_adjusted_p(
             .expect("give the file input the paths");
         let status = wait_until_read(&client, expected.counts.read).await;
         assert!(
-            status.starts_with("4 file(s) read, 1 skipped (not lot files, named below)"),
+            status.starts_with("6 file(s) read, 1 skipped (not lot files, named below)"),
             "status: {status}"
         );
         let messages = text_of(&client, "lots-file-messages").await;
@@ -523,14 +529,20 @@ async fn a_notes_file_among_lot_files_is_skipped_and_pairs_show_holm_adjusted_p(
             messages.contains("skipped README.md: not a lot file: line 3: "),
             "messages: {messages}"
         );
-        // The four lots are summarised as without the README.
-        for lot in ["C2-4417", "C2-4418", "C2-4421", "C2-4425"] {
+        // The six lots are summarised as without the README.
+        for lot in [
+            "C2-4417", "C2-4418", "C2-4421", "C2-4425", "C2-4429", "C2-4432",
+        ] {
             assert_eq!(summary_cells(&client, lot).await[0], lot);
         }
 
         // Every pair with its raw and Holm-adjusted p, as the core computes them.
         let rows = table_cells(&client, "lots-differences").await;
-        assert_eq!(rows.len(), 7, "six pairs and the all-lots test: {rows:?}");
+        assert_eq!(
+            rows.len(),
+            16,
+            "fifteen pairs and the all-lots test: {rows:?}"
+        );
         let mut book = LotBook::new();
         for (_, text) in &texts {
             read_str(text, &ReadOptions::default(), &mut book, &mut |_| {}).expect("core reads");
@@ -878,4 +890,215 @@ async fn a_50_mb_file_is_read_with_progress_and_the_page_stays_responsive() {
         screenshot(&client, "lots-50mb-1366").await;
     })
     .await;
+}
+
+/// The cells of column `col` of the wafer table, top to bottom.
+async fn wafer_column(client: &Client, col: usize) -> Vec<String> {
+    table_cells(client, "lots-wafers")
+        .await
+        .into_iter()
+        .map(|r| r[col].clone())
+        .collect()
+}
+
+/// The `aria-sort` of the header cell holding the sort button `[data-testid=id]`.
+async fn aria_sort(client: &Client, id: &str) -> String {
+    let v = client
+        .execute(
+            "return document.querySelector('[data-testid=\"' + arguments[0] + '\"]') \
+             .closest('th').getAttribute('aria-sort');",
+            vec![serde_json::json!(id)],
+        )
+        .await
+        .expect("read aria-sort");
+    v.as_str().unwrap_or("").to_string()
+}
+
+/// Filters and sorts of the wafer table on the demo lots, checked against the core's report.
+async fn wafer_table_filters_and_sorts(size: (u32, u32)) {
+    with_browser(size.0, size.1, move |client, base| async move {
+        open_lots(&client, &base).await;
+        let expected = load_demo(&client).await;
+        let total = expected.wafer_verdicts.len();
+        let count = |shown: usize| format!("showing {shown} of {total} wafers");
+        assert_eq!(text_of(&client, "wafers-count").await, count(total));
+
+        // Failing wafers only, then failing and marginal ones, as the core judges them.
+        for (filter, words) in [
+            ("fail", &["fail"][..]),
+            ("fail-marginal", &["fail", "marginal"]),
+        ] {
+            choose(&client, "wafers-show", filter).await;
+            let wanted: Vec<(String, String)> = expected
+                .wafer_verdicts
+                .iter()
+                .filter(|(.., v)| words.contains(&v.as_str()))
+                .map(|(l, w, _)| (l.clone(), w.clone()))
+                .collect();
+            text_until(&client, "wafers-count", |t| t == count(wanted.len())).await;
+            let shown: Vec<(String, String)> = table_cells(&client, "lots-wafers")
+                .await
+                .into_iter()
+                .map(|r| (r[0].clone(), r[1].clone()))
+                .collect();
+            assert_eq!(shown, wanted, "filter {filter}");
+        }
+        // Source: demo-wafers/README.md (invented scenario): the 12 wafers of C2-4421 fail and
+        // wafer 07 of C2-4425 is marginal.
+        assert_eq!(body_rows(&client, "lots-wafers").await, 13);
+        screenshot(&client, &format!("lots-wafers-failing-{}", size.0)).await;
+        choose(&client, "wafers-show", "all").await;
+        text_until(&client, "wafers-count", |t| t == count(total)).await;
+
+        // Sorting by the mean: numerically ascending, a second click descending.
+        let numbers = |cells: Vec<String>| -> Vec<f64> {
+            cells
+                .iter()
+                .map(|c| c.parse().unwrap_or_else(|_| panic!("not a number: {c}")))
+                .collect()
+        };
+        assert_eq!(aria_sort(&client, "wafers-sort-mean").await, "none");
+        click(&client, "wafers-sort-mean").await;
+        assert_eq!(aria_sort(&client, "wafers-sort-mean").await, "ascending");
+        let means = numbers(wafer_column(&client, 3).await);
+        assert_eq!(means.len(), total);
+        assert!(means.windows(2).all(|w| w[0] <= w[1]), "{means:?}");
+        click(&client, "wafers-sort-mean").await;
+        assert_eq!(aria_sort(&client, "wafers-sort-mean").await, "descending");
+        let means = numbers(wafer_column(&client, 3).await);
+        assert!(means.windows(2).all(|w| w[0] >= w[1]), "{means:?}");
+        scroll_to(&client, "lots-wafers").await;
+        screenshot(&client, &format!("lots-wafers-sorted-{}", size.0)).await;
+
+        // From the keyboard: Enter on a focused header button sorts by that column, and the
+        // other header goes back to unsorted. Sites outside sort as numbers (0, 1, 13, 23).
+        let button = by_testid(&client, "wafers-sort-outside").await;
+        run_script(
+            &client,
+            "document.querySelector('[data-testid=\"wafers-sort-outside\"]').focus();",
+        )
+        .await;
+        button.send_keys("\u{e007}").await.expect("press Enter");
+        assert_eq!(aria_sort(&client, "wafers-sort-outside").await, "ascending");
+        assert_eq!(aria_sort(&client, "wafers-sort-mean").await, "none");
+        let outside = numbers(wafer_column(&client, 8).await);
+        assert!(outside.windows(2).all(|w| w[0] <= w[1]), "{outside:?}");
+        assert_eq!(outside.last().copied(), Some(23.0), "{outside:?}");
+    })
+    .await;
+}
+
+#[tokio::test(flavor = "multi_thread")]
+async fn wafer_table_filters_and_sorts_at_1366() {
+    wafer_table_filters_and_sorts(LAPTOP).await;
+}
+
+#[tokio::test(flavor = "multi_thread")]
+async fn wafer_table_filters_and_sorts_at_1920() {
+    wafer_table_filters_and_sorts(DESKTOP).await;
+}
+
+/// A week of production: 24 lots x 25 wafers x 5 sites (invented values, 0.3 ohm cm apart from
+/// lot to lot, so the later lots run above the 12 ohm cm limit).
+const MANY_LOTS: LotRows = LotRows {
+    lots: 24,
+    wafers: 25,
+    sites_per_wafer: 5,
+    dopant: "P",
+    lot_prefix: "K4-5",
+};
+
+/// The 24-lot file, read through the file input: the chart keeps its room per lot (wider than
+/// its panel, which scrolls), names every lot on its axis or in the list under it, and its PNG
+/// is the whole chart.
+async fn many_lots_stay_legible(size: (u32, u32)) {
+    with_browser(size.0, size.1, move |client, base| async move {
+        let text = MANY_LOTS.text();
+        let file = TempFile::new("many-lots", "k4-week.csv", &text);
+        let window = SpecWindow::parse(SpecQuantity::Resistivity, DEMO_WINDOW).expect("window");
+        let expected = expected_for(&[("k4-week.csv".into(), text.clone())], Some(&window));
+        assert_eq!(expected.verdicts.len(), 24);
+        open_lots(&client, &base).await;
+        retype(&client, "lots-spec-min", "8").await;
+        retype(&client, "lots-spec-max", "12").await;
+        by_testid(&client, "lots-files")
+            .await
+            .send_keys(&file.path())
+            .await
+            .expect("give the file input a path");
+        wait_until_read(&client, MANY_LOTS.rows() as u64).await;
+        text_until(&client, "wafers-count", |t| t == "showing 600 of 600 wafers").await;
+
+        let ink = canvas_drawn(&client, "lots-chart", MIN_INKED_PIXELS).await;
+        // 56 CSS px per lot plus 180 for the axis and the limit labels (chart.rs).
+        let least = f64::from(24 * 56 + 180);
+        assert!(ink.css_width >= least, "chart {:?} narrower than {least}", ink);
+        let scroll = client
+            .execute(
+                "const b = document.querySelector('[data-testid=\"lots-chart-scroll\"]'); \
+                 return [b.scrollWidth, b.clientWidth];",
+                vec![],
+            )
+            .await
+            .expect("read the scroll box");
+        let (inner, outer) = (scroll[0].as_f64().unwrap_or(0.0), scroll[1].as_f64().unwrap_or(0.0));
+        assert!(
+            inner >= least && outer < inner,
+            "the chart box does not scroll: {inner} in {outer}"
+        );
+
+        // Every lot in words, with the core's verdict.
+        let items = client
+            .execute(
+                "return Array.from(document.querySelectorAll('[data-testid=\"lots-chart-values\"] li')) \
+                 .map(l => l.textContent);",
+                vec![],
+            )
+            .await
+            .expect("read the chart's list");
+        let items: Vec<String> = serde_json::from_value(items).expect("texts");
+        assert_eq!(items.len(), 24);
+        for (item, (lot, verdict)) in items.iter().zip(&expected.verdicts) {
+            let word = verdict.map_or("no verdict", Verdict::as_str);
+            assert!(item.starts_with(&format!("{lot}: {word};")), "{item}");
+        }
+        // The later lots run above the window, the first ones inside (by construction above).
+        assert_eq!(expected.verdicts[0].1, Some(Verdict::Pass));
+        assert_eq!(expected.verdicts[23].1, Some(Verdict::Fail));
+
+        // The PNG is the whole chart, not the part in view.
+        record_downloads(&client).await;
+        click(&client, "lots-chart-png").await;
+        let png_width = client
+            .execute_async(
+                "const done = arguments[arguments.length - 1]; \
+                 const d = window.__downloads[window.__downloads.length - 1]; \
+                 const i = new Image(); i.onload = () => done(i.naturalWidth); i.src = d[1];",
+                vec![],
+            )
+            .await
+            .expect("read the PNG");
+        assert_eq!(png_width.as_u64(), Some(ink.width), "PNG width");
+
+        scroll_to(&client, "lots-chart").await;
+        screenshot(&client, &format!("lots-many-{}", size.0)).await;
+        run_script(
+            &client,
+            "const b = document.querySelector('[data-testid=\"lots-chart-scroll\"]'); \
+             b.scrollLeft = b.scrollWidth;",
+        )
+        .await;
+        screenshot(&client, &format!("lots-many-{}-right", size.0)).await;
+    })
+    .await;
+}
+
+#[tokio::test(flavor = "multi_thread")]
+async fn many_lots_stay_legible_at_1366() {
+    many_lots_stay_legible(LAPTOP).await;
+}
+
+#[tokio::test(flavor = "multi_thread")]
+async fn many_lots_stay_legible_at_1920() {
+    many_lots_stay_legible(DESKTOP).await;
 }

@@ -225,7 +225,7 @@ async fn lot_comparison_report_prints_the_spec_window_and_every_verdict() {
         let deadline = Instant::now() + READ_WAIT;
         while !text_of(&client, "lots-status")
             .await
-            .contains("605 rows read")
+            .contains("1046 rows read")
         {
             assert!(Instant::now() < deadline, "the demo lots were not read");
             tokio::time::sleep(Duration::from_millis(100)).await;
@@ -233,7 +233,7 @@ async fn lot_comparison_report_prints_the_spec_window_and_every_verdict() {
         click(&client, "report-open").await;
         by_testid(&client, "report").await;
         // The distribution chart and one wafer map per lot: the wafer that decides its verdict.
-        assert_eq!(report_chart_count(&client, 5).await, 5);
+        assert_eq!(report_chart_count(&client, 7).await, 7);
         let titles = client
             .execute(
                 "return Array.from(document.querySelectorAll('[data-testid=\"report-chart\"]')) \
@@ -262,6 +262,8 @@ async fn lot_comparison_report_prints_the_spec_window_and_every_verdict() {
             ("C2-4418", "pass"),
             ("C2-4421", "fail"),
             ("C2-4425", "marginal"),
+            ("C2-4429", "pass"),
+            ("C2-4432", "pass"),
         ];
         for (lot, verdict) in scenario {
             let row = rows

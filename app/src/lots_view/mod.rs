@@ -4,7 +4,8 @@
 //! CSV exports. All numbers come from `bandgauge_core::lots`.
 //!
 //! [`LotsWork`] (`work.rs`) is the plain state, tested natively; the component (`view.rs`) only
-//! displays it, with the charts of `charts.rs` and the text of `summary.rs`. `reading.rs` reads
+//! displays it, with the charts of `charts.rs`, the text of `summary.rs` and the wafer table's
+//! filter and sort order of `table.rs`. `reading.rs` reads
 //! files in the page (Blob slices through a `FileReader`); `snapshot.rs` keeps what the view
 //! holds while another view is shown and hands it to the sign-off record.
 
@@ -12,13 +13,14 @@ mod charts;
 mod reading;
 mod snapshot;
 mod summary;
+mod table;
 mod view;
 mod work;
 
 #[cfg(test)]
 mod tests;
 
-pub use charts::{distribution_chart, wafer_map};
+pub use charts::{distribution_chart, distribution_lines, wafer_map};
 pub use snapshot::{LotsInputs, LotsSnapshot, install, is_reading, snapshot};
 pub use summary::{DifferenceRow, HOLM_ADJUSTMENT, difference_rows, models_used, summary_csv};
 pub use view::LotsView;
@@ -36,7 +38,7 @@ pub const MAX_KEPT_SITES: usize = 500_000;
 pub const MAX_RECORDED_BYTES: usize = 64 * 1024 * 1024;
 
 /// The demo lots of `demo-wafers/`, built into the page.
-pub const DEMO_FILES: [(&str, &str); 4] = [
+pub const DEMO_FILES: [(&str, &str); 6] = [
     (
         "c2-4417.csv",
         include_str!("../../../demo-wafers/c2-4417.csv"),
@@ -52,6 +54,14 @@ pub const DEMO_FILES: [(&str, &str); 4] = [
     (
         "c2-4425-with-bad-rows.csv",
         include_str!("../../../demo-wafers/c2-4425-with-bad-rows.csv"),
+    ),
+    (
+        "c2-4429-radial.csv",
+        include_str!("../../../demo-wafers/c2-4429-radial.csv"),
+    ),
+    (
+        "c2-4432-hot-spot.csv",
+        include_str!("../../../demo-wafers/c2-4432-hot-spot.csv"),
     ),
 ];
 /// The spec window of the demo scenario (demo-wafers/README.md), ohm cm.

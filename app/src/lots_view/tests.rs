@@ -4,7 +4,7 @@ use bandgauge_core::lots::{SpecQuantity, SpecWindow, Verdict};
 
 use super::charts::site_side;
 use super::*;
-use crate::chart::Mark;
+use crate::chart::{Mark, Shape};
 
 fn demo_work() -> LotsWork {
     let mut work = LotsWork::new(None);
@@ -31,10 +31,24 @@ fn demo_lots_get_the_scenario_verdicts() {
             ("C2-4418", Some(Verdict::Pass)),
             ("C2-4421", Some(Verdict::Fail)),
             ("C2-4425", Some(Verdict::Marginal)),
+            ("C2-4429", Some(Verdict::Pass)),
+            ("C2-4432", Some(Verdict::Pass)),
         ]
     );
+    // The patterned lots pass on their wafer means, but their sites say what is wrong: the
+    // outer ring of C2-4429 wafer 04 lies below 8 ohm cm (23 sites), and the hot spot of
+    // C2-4432 lifts one site above 12 ohm cm on wafers 01 and 04.
+    let outside = |lot: &str| {
+        report
+            .lots
+            .iter()
+            .find(|l| l.lot == lot)
+            .and_then(|l| l.sites_outside)
+    };
+    assert_eq!(outside("C2-4429"), Some(23));
+    assert_eq!(outside("C2-4432"), Some(2));
     let c = work.counts();
-    assert_eq!((c.read, c.converted, c.rejected), (605, 598, 7));
+    assert_eq!((c.read, c.converted, c.rejected), (1046, 1039, 7));
 }
 
 #[test]
@@ -80,11 +94,11 @@ fn a_file_that_is_not_a_lot_file_is_skipped_among_several() {
     assert_eq!(work.skipped_files(), 1);
     assert!(
         work.status_line(5, false)
-            .contains("4 file(s) read, 1 skipped")
+            .contains("6 file(s) read, 1 skipped")
     );
     assert_eq!(
         work.report(None).lots.len(),
-        4,
+        6,
         "the other files are summarised"
     );
     // Alone it is refused, as `bandgauge lots` refuses it.
@@ -110,26 +124,26 @@ fn a_file_that_is_not_a_lot_file_is_skipped_among_several() {
 fn lot_differences_show_raw_and_holm_adjusted_p() {
     let report = demo_work().report(None);
     let rows = difference_rows(&report, None);
-    // Four demo lots: six pairs and the all-lots test.
-    assert_eq!(rows.len(), 7);
-    for d in &rows[..6] {
+    // Six demo lots: fifteen pairs and the all-lots test.
+    assert_eq!(rows.len(), 16);
+    for d in &rows[..15] {
         let adjusted = d.p_adjusted.expect("pairs are adjusted");
         assert!(d.p_raw <= adjusted, "{d:?}");
         assert_eq!(d.significant, adjusted < 0.05);
     }
-    assert_eq!(rows[6].p_adjusted, None);
-    // Source: Holm, Scand. J. Statist. 6, 65-70 (1979): the smallest of m = 6 p-values is
-    // multiplied by 6.
-    let smallest = rows[..6]
+    assert_eq!(rows[15].p_adjusted, None);
+    // Source: Holm, Scand. J. Statist. 6, 65-70 (1979): the smallest of m = 15 p-values is
+    // multiplied by 15.
+    let smallest = rows[..15]
         .iter()
         .min_by(|a, b| a.p_raw.total_cmp(&b.p_raw))
-        .expect("six");
+        .expect("fifteen");
     let ratio = smallest.p_adjusted.expect("adjusted") / smallest.p_raw;
-    assert!((ratio - 6.0).abs() < 1e-12, "{ratio}");
+    assert!((ratio - 15.0).abs() < 1e-12, "{ratio}");
     let picked = difference_rows(&report, Some("C2-4417"));
     assert_eq!(
         picked.len(),
-        3,
+        5,
         "the pairs with the picked lot, no all-lots test"
     );
 }
@@ -213,23 +227,66 @@ fn verdicts_and_outside_sites_are_written_not_only_coloured() {
     let spec = spec_from_inputs("resistivity", DEMO_SPEC.0, DEMO_SPEC.1).unwrap();
     let report = work.report(spec.as_ref());
     let chart = distribution_chart(&report, spec.as_ref(), None).unwrap();
-    let labels: Vec<&str> = chart
+    // The lot names are the axis' labels, not text beside points.
+    assert_eq!(
+        chart.x.categories,
+        [
+            "C2-4417", "C2-4418", "C2-4421", "C2-4425", "C2-4429", "C2-4432"
+        ]
+    );
+    // Each lot median's marker tells the verdict by shape as well as colour, and its key in
+    // words.
+    let medians: Vec<(Shape, &str)> = chart
         .marks
         .iter()
         .filter_map(|m| match m {
-            Mark::Point { label, .. } if !label.is_empty() => Some(label.as_str()),
+            Mark::Symbol {
+                large: true,
+                shape,
+                key,
+                ..
+            } => Some((*shape, key.as_str())),
             _ => None,
         })
         .collect();
-    assert_eq!(labels.len(), 4);
-    for (label, word) in labels.iter().zip(["pass", "pass", "fail", "marginal"]) {
-        assert!(label.ends_with(word), "{label}");
+    assert_eq!(
+        medians,
+        [
+            (Shape::Circle, "lot median, pass"),
+            (Shape::Circle, "lot median, pass"),
+            (Shape::Cross, "lot median, fail"),
+            (Shape::Triangle, "lot median, marginal"),
+            (Shape::Circle, "lot median, pass"),
+            (Shape::Circle, "lot median, pass"),
+        ]
+    );
+    // One small marker per wafer mean, one box per lot, no text on the plot.
+    let count = |f: fn(&Mark) -> bool| chart.marks.iter().filter(|m| f(m)).count();
+    assert_eq!(
+        count(|m| matches!(m, Mark::Symbol { large: false, .. })),
+        55
+    );
+    assert_eq!(count(|m| matches!(m, Mark::Span { .. })), 6);
+    assert_eq!(count(|m| matches!(m, Mark::Point { .. })), 0);
+    // And in words, one line per lot.
+    let lines = distribution_lines(&report, spec.as_ref(), None);
+    assert_eq!(lines.len(), 6);
+    for (line, start) in lines.iter().zip([
+        "C2-4417: pass;",
+        "C2-4418: pass;",
+        "C2-4421: fail;",
+        "C2-4425: marginal;",
+        "C2-4429: pass;",
+        "C2-4432: pass;",
+    ]) {
+        assert!(line.starts_with(start), "{line}");
+        assert!(line.contains("middle half of the wafer means"), "{line}");
     }
     // Every site of C2-4421 wafer 11 lies below 8 ohm cm.
     let map = wafer_map(&work.sites, "C2-4421", "11", spec.as_ref()).unwrap();
     assert!(map.marks.iter().all(|m| match m {
         Mark::Point { label, .. } => label.ends_with(" low"),
-        Mark::Vertical { .. } => false,
+        _ => false,
     }));
     let window = SpecWindow::parse(SpecQuantity::Resistivity, "8:12").unwrap();
     assert_eq!(site_side(&window, 7.9), "low");
@@ -244,9 +301,9 @@ fn exports_charts_and_spec_inputs() {
     let report = work.report(spec.as_ref());
     let summary = summary_csv(&report);
     // One line per lot and per wafer, after the header.
-    assert_eq!(summary.lines().count(), 1 + 4 + 46);
+    assert_eq!(summary.lines().count(), 1 + 6 + 55);
     let rows = work.rows_csv(spec.as_ref());
-    assert_eq!(rows.lines().count(), 1 + 598);
+    assert_eq!(rows.lines().count(), 1 + 1039);
     let chart = distribution_chart(&report, spec.as_ref(), None).unwrap();
     assert_eq!(
         chart

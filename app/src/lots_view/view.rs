@@ -4,10 +4,11 @@
 use bandgauge_core::lots::SpecQuantity;
 use leptos::prelude::*;
 
-use super::charts::{distribution_chart, wafer_map};
+use super::charts::{distribution_chart, distribution_lines, wafer_map};
 use super::reading::{Handles, Source, files_of, read_sources};
 use super::snapshot::{KEPT, LIVE, Live, LotsInputs};
 use super::summary::{HOLM_ADJUSTMENT, difference_rows, models_used, summary_csv};
+use super::table::{WaferColumn, WaferFilter, WaferRow, WaferSort, shown_order, wafer_rows};
 use super::work::{LotsWork, spec_from_inputs};
 use super::{DEMO_FILES, DEMO_SPEC};
 use crate::Bench;
@@ -43,6 +44,8 @@ pub fn LotsView(
     let lot_filter = RwSignal::new(kept_inputs.lot_filter);
     let map_wafer = RwSignal::new(kept_inputs.map_wafer);
     let export_error = RwSignal::new(None::<String>);
+    let wafers_shown = RwSignal::new(WaferFilter::All);
+    let wafers_sort = RwSignal::new(None::<WaferSort>);
     let handles = Handles {
         work,
         progress,
@@ -174,6 +177,17 @@ pub fn LotsView(
     let chart = Signal::derive(move || {
         let window = spec.get().ok().flatten();
         report.with(|r| distribution_chart(r, window.as_ref(), filter().as_deref()))
+    });
+    // The lot chart in words, listed under it.
+    let chart_lines = move || {
+        let window = spec.get().ok().flatten();
+        report.with(|r| distribution_lines(r, window.as_ref(), filter().as_deref()))
+    };
+    // Memos: the rows follow the report, the order follows the filter and sort too; a click
+    // re-sorts indices and re-reads nothing.
+    let wafer_table = Memo::new(move |_| report.with(|r| wafer_rows(r, filter().as_deref())));
+    let wafer_order = Memo::new(move |_| {
+        wafer_table.with(|rows| shown_order(rows, wafers_shown.get(), wafers_sort.get()))
     });
     let map_choices = move || {
         report.with(|r| {
@@ -311,7 +325,7 @@ pub fn LotsView(
                 fallback=|| view! {
                     <p class="lots-empty" data-testid="lots-empty">
                         "Nothing read yet. Drop lot files above, pick them, or load the demo lots "
-                        "(four invented lots from one week of a production line)."
+                        "(six invented lots from two weeks of a production line)."
                     </p>
                 }
             >
@@ -405,7 +419,15 @@ pub fn LotsView(
                     <Caution models=Signal::derive(move || report.with(models_used)) />
                 </div>
                 <div class="lots-charts">
-                    <ChartPanel id="lots-chart" spec=chart layout=bench.layout input_at=bench.input_at />
+                    <div class="lots-distribution">
+                        <ChartPanel id="lots-chart" spec=chart layout=bench.layout input_at=bench.input_at />
+                        <details class="chart-values" data-testid="lots-chart-values">
+                            <summary>"The lot chart in words"</summary>
+                            <ul>
+                                {move || chart_lines().into_iter().map(|l| view! { <li>{l}</li> }).collect_view()}
+                            </ul>
+                        </details>
+                    </div>
                     <div class="lots-map">
                         <div class="field">
                             <label for="lots-map-wafer">"Wafer map"</label>
@@ -431,31 +453,54 @@ pub fn LotsView(
                 </div>
                 <div class="panel lots-panel">
                     <h2>"Wafers"</h2>
+                    <div class="wafer-table-controls">
+                        <label for="lots-wafers-show">"Show"</label>
+                        <select id="lots-wafers-show" data-testid="wafers-show"
+                            on:change=move |ev| wafers_shown.set(WaferFilter::from_id(&event_target_value(&ev)))>
+                            {WaferFilter::ALL.into_iter().map(|f| view! {
+                                <option value=f.id() selected=move || wafers_shown.get() == f>{f.text()}</option>
+                            }).collect_view()}
+                        </select>
+                        <span class="hint" data-testid="wafers-count" role="status" aria-live="polite">
+                            {move || format!("showing {} of {} wafers", wafer_order.with(Vec::len), wafer_table.with(Vec::len))}
+                        </span>
+                        <span class="hint">"Sort by any column: click its name; again to reverse."</span>
+                    </div>
                     <div class="table-scroll tall">
                         <table class="lots-wafers" data-testid="lots-wafers">
                             <thead><tr>
-                                <th scope="col">"lot"</th><th scope="col" class="left">"wafer"</th><th scope="col">"sites"</th>
-                                <th scope="col">"mean, ohm cm"</th><th scope="col">"std/mean, %"</th>
-                                <th scope="col">"mean, cm^-3"</th><th scope="col" class="left">"verdict"</th>
-                                <th scope="col">{move || format!("margin, {}", unit())}</th><th scope="col">"sites outside"</th>
+                                {WaferColumn::ALL.into_iter().map(|c| {
+                                    let heading = move || match c {
+                                        WaferColumn::Lot => "lot".to_owned(),
+                                        WaferColumn::Wafer => "wafer".to_owned(),
+                                        WaferColumn::Sites => "sites".to_owned(),
+                                        WaferColumn::MeanResistivity => "mean, ohm cm".to_owned(),
+                                        WaferColumn::Nonuniformity => "std/mean, %".to_owned(),
+                                        WaferColumn::MeanDensity => "mean, cm^-3".to_owned(),
+                                        WaferColumn::Verdict => "verdict".to_owned(),
+                                        WaferColumn::Margin => format!("margin, {}", unit()),
+                                        WaferColumn::SitesOutside => "sites outside".to_owned(),
+                                    };
+                                    view! {
+                                        <th scope="col" class:left=c.is_text()
+                                            aria-sort=move || WaferSort::aria(wafers_sort.get(), c)>
+                                            <button type="button" class="sort" data-testid=format!("wafers-sort-{}", c.id())
+                                                on:click=move |_| wafers_sort.update(|s| *s = Some(WaferSort::clicked(*s, c)))>
+                                                {heading}
+                                                <span class="sort-sign" aria-hidden="true">
+                                                    {move || match WaferSort::aria(wafers_sort.get(), c) {
+                                                        "ascending" => " \u{25b2}",
+                                                        "descending" => " \u{25bc}",
+                                                        _ => "",
+                                                    }}
+                                                </span>
+                                            </button>
+                                        </th>
+                                    }
+                                }).collect_view()}
                             </tr></thead>
                             <tbody>
-                                {move || report.with(|r| r.lots.iter().filter(|l| filter().is_none_or(|f| f == l.lot)).flat_map(|l| {
-                                    l.wafer_results.iter().map(|w| {
-                                        let verdict = w.judgement.map(|j| j.verdict.as_str()).unwrap_or("");
-                                        view! {
-                                            <tr>
-                                                <th scope="row">{l.lot.clone()}</th><td class="left">{w.wafer.clone()}</td><td>{w.sites}</td>
-                                                <td>{format::auto(w.resistivity_ohm_cm.mean)}</td>
-                                                <td>{w.resistivity_ohm_cm.nonuniformity_percent.map(|p| format::fixed(p, 2)).unwrap_or_default()}</td>
-                                                <td>{format::sci(w.density_cm3.mean)}</td>
-                                                <td class=format!("left verdict {verdict}")>{verdict}</td>
-                                                <td>{w.judgement.map(|j| format::auto(j.margin)).unwrap_or_default()}</td>
-                                                <td>{w.sites_outside.map(|s| s.to_string()).unwrap_or_default()}</td>
-                                            </tr>
-                                        }
-                                    }).collect::<Vec<_>>()
-                                }).collect_view())}
+                                {move || wafer_table.with(|rows| wafer_order.get().into_iter().map(|i| wafer_row(&rows[i])).collect_view())}
                             </tbody>
                         </table>
                     </div>
@@ -504,5 +549,21 @@ pub fn LotsView(
                 </div>
             </Show>
         </section>
+    }
+}
+
+/// One row of the wafer table.
+fn wafer_row(w: &WaferRow) -> impl IntoView + use<> {
+    let verdict = w.verdict.map(|v| v.as_str()).unwrap_or("");
+    view! {
+        <tr data-testid=format!("wafer-{}-{}", w.lot, w.wafer)>
+            <th scope="row" class="left">{w.lot.clone()}</th><td class="left">{w.wafer.clone()}</td><td>{w.sites}</td>
+            <td>{format::auto(w.mean_ohm_cm)}</td>
+            <td>{w.nonuniformity_percent.map(|p| format::fixed(p, 2)).unwrap_or_default()}</td>
+            <td>{format::sci(w.mean_cm3)}</td>
+            <td class=format!("left verdict {verdict}")>{verdict}</td>
+            <td>{w.margin.map(format::auto).unwrap_or_default()}</td>
+            <td>{w.sites_outside.map(|s| s.to_string()).unwrap_or_default()}</td>
+        </tr>
     }
 }

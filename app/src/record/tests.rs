@@ -134,7 +134,9 @@ fn records_hold_what_each_view_shows() {
             ("C2-4417", "pass"),
             ("C2-4418", "pass"),
             ("C2-4421", "fail"),
-            ("C2-4425", "marginal")
+            ("C2-4425", "marginal"),
+            ("C2-4429", "pass"),
+            ("C2-4432", "pass")
         ]
     );
     assert_eq!(
@@ -468,6 +470,6 @@ fn input_lines_list_what_was_typed() {
     assert!(lines.contains(&("Dopant 1".into(), "P 1e16".into())));
     assert!(lines.contains(&("Temperature".into(), "300 K".into())));
     let lines = input_lines(&record(View::Lots));
-    assert_eq!(lines.iter().filter(|l| l.0 == "Lot file").count(), 4);
+    assert_eq!(lines.iter().filter(|l| l.0 == "Lot file").count(), 6);
     assert!(lines.contains(&("Lower limit".into(), "8".into())));
 }
