@@ -828,6 +828,17 @@ fn csv_cell(text: &str) -> String {
     }
 }
 
+/// An x value as a CSV cell: on a category axis the category's name at its position (a
+/// spreadsheet wants the lot, not its place on the chart), otherwise the number.
+fn x_cell(spec: &ChartSpec, x: f64) -> String {
+    let names = &spec.x.categories;
+    if x.fract() == 0.0 && x >= 1.0 && x <= names.len() as f64 {
+        csv_cell(&names[x as usize - 1])
+    } else {
+        format::csv_number(x)
+    }
+}
+
 /// The chart's data as CSV. Series that share their x values become columns of one table
 /// (what a spreadsheet wants); otherwise one row per point with the series name.
 pub fn to_csv(spec: &ChartSpec) -> String {
@@ -854,7 +865,7 @@ pub fn to_csv(spec: &ChartSpec) -> String {
         out.push_str(&header.join(","));
         out.push('\n');
         for (i, (x, _)) in data[0].points.iter().enumerate() {
-            let mut row = vec![format::csv_number(*x)];
+            let mut row = vec![x_cell(spec, *x)];
             row.extend(data.iter().map(|s| format::csv_number(s.points[i].1)));
             out.push_str(&row.join(","));
             out.push('\n');
@@ -870,7 +881,7 @@ pub fn to_csv(spec: &ChartSpec) -> String {
                 out.push_str(&format!(
                     "{},{},{}\n",
                     csv_cell(&s.name),
-                    format::csv_number(*x),
+                    x_cell(spec, *x),
                     format::csv_number(*y)
                 ));
             }
@@ -916,6 +927,19 @@ mod tests {
         assert_eq!(
             to_csv(&s),
             "series,T (K),n (cm^-3)\na,1e0,2e0\nb,3e0,4e0\nb,5e0,6e0\n"
+        );
+    }
+
+    #[test]
+    fn csv_names_the_categories_at_their_positions() {
+        let mut s = spec(vec![
+            Series::line("a range", vec![(1.0, 2.0), (1.0, 3.0)], palette::BAND),
+            Series::line("limit", vec![(0.5, 4.0), (2.5, 4.0)], palette::BAND),
+        ]);
+        s.x = Axis::categories("lot", vec!["A, 1".into(), "B".into()]);
+        assert_eq!(
+            to_csv(&s),
+            "series,lot,n (cm^-3)\na range,\"A, 1\",2e0\na range,\"A, 1\",3e0\nlimit,5e-1,4e0\nlimit,2.5e0,4e0\n"
         );
     }
 

@@ -313,6 +313,9 @@ fn exports_charts_and_spec_inputs() {
             .count(),
         2
     );
+    // The chart's CSV names each lot rather than its place on the chart.
+    let csv = crate::chart::to_csv(&chart);
+    assert!(csv.contains("\nC2-4417 site range,C2-4417,"), "{csv}");
     assert!(distribution_chart(&report, spec.as_ref(), Some("C2-4421")).is_some());
     let map = wafer_map(&work.sites, "C2-4417", "01", spec.as_ref()).unwrap();
     assert_eq!(map.marks.len(), 13);
