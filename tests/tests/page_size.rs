@@ -8,9 +8,11 @@ use std::io::Write as _;
 
 /// The committed budget for the gzipped release wasm, in bytes. Measured at the commit that
 /// set it (see DEVELOPERS.md, "Page size"); lower it when a change makes the page smaller,
-/// never raise it without saying why in the commit. Raised once, from 440 KiB: the van der
-/// Pauw & Hall view, the probe geometry and the Holm tables added 34,238 bytes (473,901).
-const WASM_GZIP_BUDGET_BYTES: usize = 470 * 1024;
+/// never raise it without saying why in the commit. Raised from 440 KiB: the van der Pauw &
+/// Hall view, the probe geometry and the Holm tables added 34,238 bytes (473,901). Raised from
+/// 470 KiB: the lot chart at scale, the sortable wafer table and the two patterned demo lots
+/// added 14,831 bytes (488,732).
+const WASM_GZIP_BUDGET_BYTES: usize = 478 * 1024;
 
 fn gzip9_len(bytes: &[u8]) -> usize {
     let mut gz = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());
