@@ -43,6 +43,7 @@ const LAYERS: &[(&str, &[&str])] = &[
             "lots::columns",
             "lots::verdict",
             "lots::stats",
+            "lots::map",
             "lots::reader",
             "lots::book",
             "lots",

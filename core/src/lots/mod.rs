@@ -13,6 +13,9 @@
 //!   [`Judgement`]s against a [`SpecWindow`], Cpk, [`LotDifference`] (Welch) and
 //!   [`LotRankTest`] (Kruskal-Wallis).
 //! - [`stats`]: the statistics and the distributions behind them.
+//! - [`map`]: the wafer map's mathematics: the outline a file states ([`map::WaferOutline`]),
+//!   a surface through the sites ([`map::SurfaceFit`], Delaunay triangulation and linear
+//!   interpolation) and its raster, the uniformity figures and the radial profile.
 //!
 //! # Conversion
 //! Every site goes through the empirical silicon relations of Thurber et al. (ASTM F723) at
@@ -34,6 +37,7 @@
 
 mod book;
 mod columns;
+pub mod map;
 mod reader;
 pub mod stats;
 mod verdict;
