@@ -6,6 +6,7 @@
 //! own functions in the core.
 
 use bandgauge_core::empirical::EmpiricalRelation;
+use bandgauge_core::lots::map::{Orientation, OrientationMark, WaferOutline};
 use bandgauge_core::lots::{
     Column, LotBook, LotFileError, LotReader, MAX_LINE_BYTES, Measurement, ReadOptions, RowCounts,
     RowOutcome, RowRejection, read_str,
@@ -35,6 +36,7 @@ struct Row {
     resistivity_ohm_cm: f64,
     density_cm3: f64,
     uncertainty: Option<f64>,
+    outline: WaferOutline,
 }
 
 #[derive(Debug)]
@@ -65,6 +67,7 @@ fn read_chunked(bytes: &[u8], options: &ReadOptions, chunk: usize) -> Outcome {
             resistivity_ohm_cm: site.resistivity_ohm_cm,
             density_cm3: site.density_cm3,
             uncertainty: site.uncertainty,
+            outline: site.outline,
         }),
         RowOutcome::Rejected(rejection) => rejected.push(rejection.clone()),
     };
@@ -321,6 +324,66 @@ fn blank_lines_comments_and_empty_rows_are_not_rows() {
     let c = counts(&outcome);
     assert_eq!((c.read, c.converted), (2, 2));
     assert_eq!(outcome.rows[1].line, 11);
+}
+
+#[test]
+fn outline_settings_reach_every_site_and_the_lot() {
+    // Each written form and the outline it states (lengths: 1 in = 25.4 mm is not offered;
+    // cm and um are, by the reader's unit table).
+    let cases: [(&str, WaferOutline); 5] = [
+        ("", WaferOutline::default()),
+        (
+            "# diameter: 150 mm\n# notch: 270\n",
+            WaferOutline {
+                diameter_mm: Some(150.0),
+                orientation: Some(Orientation {
+                    mark: OrientationMark::Notch,
+                    angle_deg: 270.0,
+                }),
+            },
+        ),
+        (
+            "# diameter = 20 cm\n# flat: 0\n",
+            WaferOutline {
+                diameter_mm: Some(200.0),
+                orientation: Some(Orientation {
+                    mark: OrientationMark::Flat,
+                    angle_deg: 0.0,
+                }),
+            },
+        ),
+        (
+            "# Diameter: 300\n",
+            WaferOutline {
+                diameter_mm: Some(300.0),
+                orientation: None,
+            },
+        ),
+        (
+            "# FLAT: 89.5 deg\n",
+            WaferOutline {
+                diameter_mm: None,
+                orientation: Some(Orientation {
+                    mark: OrientationMark::Flat,
+                    angle_deg: 89.5,
+                }),
+            },
+        ),
+    ];
+    for (settings, expected) in cases {
+        let text =
+            format!("{settings}lot,wafer,x,y,dopant,resistivity\nA,1,0,0,B,10\nA,1,5,5,B,11\n");
+        let outcome = read(&text);
+        counts(&outcome);
+        assert!(
+            outcome.rows.iter().all(|r| r.outline == expected),
+            "{settings:?}"
+        );
+    }
+    // 100000 um is 100 mm (unit conversion in f64).
+    let outcome = read("# diameter: 100000 um\nlot,wafer,dopant,resistivity\nA,1,B,10\n");
+    let d = outcome.rows[0].outline.diameter_mm.unwrap();
+    close(d, 100.0, UNIT_RELATIVE, "diameter in um");
 }
 
 #[test]

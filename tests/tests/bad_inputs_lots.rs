@@ -151,7 +151,38 @@ refused_files! {
          not span lines)";
     setting_for_a_column_that_cannot_be_set: "# resistivity: 10\nlot,wafer,dopant,resistivity\n" =>
         "line 1: setting: resistivity cannot be set for a whole file; it belongs in a column \
-         (settings: lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry)";
+         (settings: lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry, \
+         diameter, notch, flat)";
+    diameter_in_inches: "# diameter: 6 in\nlot,wafer,dopant,resistivity\n" =>
+        "line 1: setting: diameter: \"6 in\": not a length unit bandgauge reads; allowed: \
+         mm (for a bare number), cm, um, nm, m";
+    diameter_not_a_length: "# diameter: large\nlot,wafer,dopant,resistivity\n" =>
+        "line 1: setting: diameter: \"large\" is not a length; give the wafer diameter, \
+         e.g. 150 mm";
+    diameter_negative: "# diameter: -150 mm\nlot,wafer,dopant,resistivity\n" =>
+        "line 1: setting: diameter: \"-150 mm\" is -150 mm; a wafer diameter is more than 0 \
+         and at most 1000 mm (standard: 100, 150, 200, 300 mm)";
+    diameter_too_large: "# diameter: 2 m\nlot,wafer,dopant,resistivity\n" =>
+        "line 1: setting: diameter: \"2 m\" is 2000 mm; a wafer diameter is more than 0 and \
+         at most 1000 mm (standard: 100, 150, 200, 300 mm)";
+    diameter_without_a_value: "# diameter:\nlot,wafer,dopant,resistivity\n" =>
+        "line 1: setting: diameter: no value after the name; give the wafer diameter, e.g. \
+         150 mm";
+    notch_angle_of_360: "# notch: 360\nlot,wafer,dopant,resistivity\n" =>
+        "line 1: setting: notch: \"360\" is outside 0 to 360; give the direction from the \
+         wafer centre in degrees anticlockwise from +x, 0 <= angle < 360 (270 = at the \
+         bottom)";
+    notch_angle_negative: "# notch: -90\nlot,wafer,dopant,resistivity\n" =>
+        "line 1: setting: notch: \"-90\" is outside 0 to 360; give the direction from the \
+         wafer centre in degrees anticlockwise from +x, 0 <= angle < 360 (270 = at the \
+         bottom)";
+    flat_angle_not_a_number: "# flat: bottom\nlot,wafer,dopant,resistivity\n" =>
+        "line 1: setting: flat: \"bottom\" is not a number; give the direction from the \
+         wafer centre in degrees anticlockwise from +x, 0 <= angle < 360 (270 = at the \
+         bottom)";
+    notch_and_flat_both_given: "# notch: 270\n# diameter: 200 mm\n# flat: 270\nlot,wafer,dopant,resistivity\n" =>
+        "line 3: setting: flat: the notch is already given on line 1; a wafer has a notch \
+         or a flat, give only one";
     setting_without_a_value: "# lot:\nwafer,dopant,resistivity\n" =>
         "line 1: setting: lot: no value after the name";
     setting_with_an_unknown_dopant: "# dopant: Ga\nlot,wafer,resistivity\n" =>
@@ -319,7 +350,8 @@ fn unknown_setting_is_read_as_a_comment_with_a_note() {
         read.notes,
         [
             "line 1: 'operator' is not a setting bandgauge knows; the line is read as a comment \
-          (settings: lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry)"
+          (settings: lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry, \
+          diameter, notch, flat)"
         ]
     );
 }

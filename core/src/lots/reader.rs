@@ -9,9 +9,10 @@ use std::fmt;
 
 use crate::empirical::{EmpiricalRelation, density_from_resistivity_cm3};
 use crate::lots::columns::{Column, header_unit, normalise_name, split_name_and_unit, unit_entry};
+use crate::lots::map::{Orientation, OrientationMark, WaferOutline};
 use crate::mobility::ConductivityType;
 use crate::probe::{self, ProbeGeometry, ProbeReading};
-use crate::units::{Unit, parse_quantity_bare_in};
+use crate::units::{QuantityKind, Unit, UnitError, parse_quantity_bare_in};
 use crate::vdp::{self, Configuration, VdpError, VdpReadings};
 
 /// Longest line accepted, bytes: a lot file's lines are short; a longer one means the input
@@ -111,6 +112,8 @@ pub struct Site<'a> {
     pub density_cm3: f64,
     /// Relative half-width of the resistivity's uncertainty (0.02 = 2 %), when given.
     pub uncertainty: Option<f64>,
+    /// The wafer outline the file states (`# diameter:`, `# notch:`, `# flat:`).
+    pub outline: WaferOutline,
 }
 
 /// A row that did not convert.
@@ -289,6 +292,9 @@ struct Settings {
     spacing_cm: Option<f64>,
     uncertainty: Option<f64>,
     geometry: Option<ProbeGeometry>,
+    outline: WaferOutline,
+    /// The line of the `# notch:` or `# flat:` setting, to name it when both are given.
+    orientation_line: Option<u64>,
 }
 
 /// Where each of our columns sits, its unit, and how the file writes numbers.
@@ -562,12 +568,14 @@ impl LotReader {
         };
         let name = body[..split].trim();
         let value = unquote(body[split + 1..].trim());
+        if let Some(outcome) = self.read_outline_setting(line, name, value) {
+            return outcome;
+        }
         let Some(column) = Column::from_name(name) else {
             if !name.is_empty() && !name.contains(char::is_whitespace) {
                 self.notes.push(format!(
                     "line {line}: '{name}' is not a setting bandgauge knows; the line is read as \
-                     a comment (settings: lot, wafer, dopant, type, thickness, spacing, \
-                     uncertainty, geometry)"
+                     a comment (settings: {SETTING_NAMES})"
                 ));
             }
             return Ok(());
@@ -576,7 +584,7 @@ impl LotReader {
         if !column.settable() {
             return Err(fail(format!(
                 "{column} cannot be set for a whole file; it belongs in a column (settings: \
-                 lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry)"
+                 {SETTING_NAMES})"
             )));
         }
         if value.is_empty() {
@@ -601,6 +609,102 @@ impl LotReader {
             _ => unreachable!("settable() admits only the columns above"),
         }
         Ok(())
+    }
+}
+
+/// Every name a `# name: value` line may set, for messages.
+const SETTING_NAMES: &str =
+    "lot, wafer, dopant, type, thickness, spacing, uncertainty, geometry, diameter, notch, flat";
+
+/// Wafers larger than this (mm) are refused as a diameter setting: the largest standard wafer
+/// is 450 mm.
+const MAX_DIAMETER_MM: f64 = 1000.0;
+
+impl LotReader {
+    /// Reads `# diameter:`, `# notch:` or `# flat:` (`None` when `name` is none of them).
+    fn read_outline_setting(
+        &mut self,
+        line: u64,
+        name: &str,
+        value: &str,
+    ) -> Option<Result<(), LotFileError>> {
+        let fail = |message: String| Err(LotFileError::Setting { line, message });
+        let name = normalise_name(name);
+        let mark = match name.as_str() {
+            "diameter" => {
+                return Some(match parse_diameter_mm(value) {
+                    Ok(d) => {
+                        self.settings.outline.diameter_mm = Some(d);
+                        Ok(())
+                    }
+                    Err(message) => fail(format!("diameter: {message}")),
+                });
+            }
+            "notch" => OrientationMark::Notch,
+            "flat" => OrientationMark::Flat,
+            _ => return None,
+        };
+        let label = mark.as_str();
+        if let (Some(earlier), Some(o)) = (
+            self.settings.orientation_line,
+            self.settings.outline.orientation,
+        ) {
+            return Some(fail(format!(
+                "{label}: the {} is already given on line {earlier}; a wafer has a notch or a \
+                 flat, give only one",
+                o.mark.as_str()
+            )));
+        }
+        Some(match parse_angle_deg(value) {
+            Ok(angle_deg) => {
+                self.settings.outline.orientation = Some(Orientation { mark, angle_deg });
+                self.settings.orientation_line = Some(line);
+                Ok(())
+            }
+            Err(message) => fail(format!("{label}: {message}")),
+        })
+    }
+}
+
+/// A diameter setting in mm: a length, bare numbers in mm.
+fn parse_diameter_mm(value: &str) -> Result<f64, String> {
+    if value.is_empty() {
+        return Err("no value after the name; give the wafer diameter, e.g. 150 mm".to_owned());
+    }
+    let cm = parse_quantity_bare_in(value, QuantityKind::Length, "mm").map_err(|e| match e {
+        UnitError::UnknownUnit { .. } => format!(
+            "{value:?}: not a length unit bandgauge reads; allowed: mm (for a bare number), cm, \
+             um, nm, m"
+        ),
+        _ => format!("{value:?} is not a length; give the wafer diameter, e.g. 150 mm"),
+    })?;
+    let mm = cm * 10.0;
+    if !(mm > 0.0 && mm <= MAX_DIAMETER_MM) {
+        return Err(format!(
+            "{value:?} is {mm} mm; a wafer diameter is more than 0 and at most \
+             {MAX_DIAMETER_MM} mm (standard: 100, 150, 200, 300 mm)"
+        ));
+    }
+    Ok(mm)
+}
+
+/// An orientation angle in degrees, 0 <= a < 360 (a trailing `deg` or `°` is allowed).
+fn parse_angle_deg(value: &str) -> Result<f64, String> {
+    let number = value
+        .trim()
+        .trim_end_matches("deg")
+        .trim_end_matches('°')
+        .trim();
+    match number.parse::<f64>() {
+        Ok(a) if (0.0..360.0).contains(&a) => Ok(a),
+        Ok(_) => Err(format!(
+            "{value:?} is outside 0 to 360; give the direction from the wafer centre in \
+             degrees anticlockwise from +x, 0 <= angle < 360 (270 = at the bottom)"
+        )),
+        Err(_) => Err(format!(
+            "{value:?} is not a number; give the direction from the wafer centre in degrees \
+             anticlockwise from +x, 0 <= angle < 360 (270 = at the bottom)"
+        )),
     }
 }
 
@@ -1229,6 +1333,7 @@ fn read_row<'a>(
         resistivity_ohm_cm,
         density_cm3,
         uncertainty,
+        outline: settings.outline,
     })
 }
 
