@@ -15,7 +15,7 @@ use std::process::ExitCode;
 
 use bandgauge_core::lots::{
     LotBook, LotReader, LotReport, LotSummary, Measurement, ReadOptions, RowOutcome, Site,
-    SpecQuantity, SpecWindow, parse_dopant,
+    SpecQuantity, SpecWindow, map::MAP_DEFINITIONS, parse_dopant,
 };
 use clap::{ArgGroup, Args};
 use serde_json::{Value, json};
@@ -562,6 +562,9 @@ fn tables(report: &LotReport, files: usize, skipped: usize, notes: &[String]) ->
         "sites",
         "mean ohm-cm",
         "std/mean %",
+        "range/sum %",
+        "range/mean %",
+        "centre-edge %",
         "mean cm^-3",
     ];
     if report.spec.is_some() {
@@ -569,7 +572,9 @@ fn tables(report: &LotReport, files: usize, skipped: usize, notes: &[String]) ->
     }
     let mut table = Table::new(
         &header,
-        &[false, false, true, true, true, true, false, true, false],
+        &[
+            false, false, true, true, true, true, true, true, true, false, true, false,
+        ],
     );
     for lot in &report.lots {
         for wafer in &lot.wafer_results {
@@ -579,6 +584,9 @@ fn tables(report: &LotReport, files: usize, skipped: usize, notes: &[String]) ->
                 wafer.sites.to_string(),
                 output::number(wafer.resistivity_ohm_cm.mean),
                 optional(wafer.resistivity_ohm_cm.nonuniformity_percent),
+                percent(wafer.uniformity.map(|u| u.range_over_sum_percent)),
+                percent(wafer.uniformity.map(|u| u.range_over_mean_percent)),
+                percent(wafer.centre_to_edge_percent),
                 output::number(wafer.density_cm3.mean),
             ];
             if let Some(j) = wafer.judgement {
@@ -650,8 +658,12 @@ fn tables(report: &LotReport, files: usize, skipped: usize, notes: &[String]) ->
 
     let d = &report.definitions;
     let _ = writeln!(out, "\nDefinitions");
+    let map = &MAP_DEFINITIONS;
     for line in [
         d.nonuniformity,
+        map.range_over_sum,
+        map.range_over_mean,
+        map.centre_to_edge,
         d.wafer_verdict,
         d.lot_verdict,
         d.uncertainty,
@@ -675,6 +687,11 @@ fn tables(report: &LotReport, files: usize, skipped: usize, notes: &[String]) ->
         )
     );
     out
+}
+
+/// A percentage to one decimal, empty when there is none.
+fn percent(value: Option<f64>) -> String {
+    value.map(|v| format!("{v:.1}")).unwrap_or_default()
 }
 
 fn optional(value: Option<f64>) -> String {

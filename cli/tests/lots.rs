@@ -404,3 +404,67 @@ fn pairwise_p_values_are_shown_raw_and_holm_adjusted() {
     );
     assert!(text.contains("Holm (1979), Scand. J. Statist. 6, 65-70"));
 }
+
+#[test]
+fn per_wafer_uniformity_and_centre_to_edge_in_json_and_table() {
+    // Synthetic: the C2-4429 demo lot is centre-high by 11 % with 0.4 % noise per site
+    // (demo-wafers/make_patterned_lots.py).
+    let path = demo("c2-4429-radial.csv");
+    let run = bandgauge(&["lots", &path, "--json"]);
+    assert_eq!(run.code, 0, "stderr: {}", run.stderr);
+    let lots: Value = serde_json::from_str(&run.stdout).unwrap();
+    let entry = lot(&lots, "C2-4429");
+    assert!(
+        entry["outline"]["diameter_mm"].is_null(),
+        "{}",
+        entry["outline"]
+    );
+    for wafer in entry["wafer_results"].as_array().unwrap() {
+        let rho = &wafer["resistivity_ohm_cm"];
+        let u = &wafer["uniformity"];
+        let (min, max, mean) = (number(rho, "min"), number(rho, "max"), number(rho, "mean"));
+        // Source: the definitions, recomputed from the wafer's own min, max and mean.
+        let range_over_sum = 100.0 * (max - min) / (max + min);
+        assert!(relative_difference(number(u, "range_over_sum_percent"), range_over_sum) < 1e-12);
+        let range_over_mean = 100.0 * (max - min) / mean;
+        assert!(relative_difference(number(u, "range_over_mean_percent"), range_over_mean) < 1e-12);
+        let std_over_mean = number(rho, "nonuniformity_percent");
+        assert!(relative_difference(number(u, "std_over_mean_percent"), std_over_mean) < 1e-12);
+        let c2e = number(wafer, "centre_to_edge_percent");
+        assert!((9.0..13.0).contains(&c2e), "{c2e}");
+    }
+    let run = bandgauge(&["lots", &path]);
+    assert_eq!(run.code, 0);
+    for text in [
+        "std/mean %",
+        "range/sum %",
+        "range/mean %",
+        "centre-edge %",
+        "centre-to-edge = ",
+    ] {
+        assert!(
+            run.stdout.contains(text),
+            "{text} missing in {}",
+            run.stdout
+        );
+    }
+}
+
+#[test]
+fn outline_settings_reach_the_json() {
+    let path = scratch(
+        "outline.csv",
+        "# diameter: 200 mm\n# notch: 270\nlot,wafer,x,y,dopant,resistivity\nA,1,0,0,B,10\nA,1,90,0,B,11\n",
+    );
+    let run = bandgauge(&["lots", &path, "--json"]);
+    assert_eq!(run.code, 0, "stderr: {}", run.stderr);
+    let lots: Value = serde_json::from_str(&run.stdout).unwrap();
+    let outline = &lot(&lots, "A")["outline"];
+    assert_eq!(outline["diameter_mm"], 200.0);
+    assert_eq!(outline["orientation"]["mark"], "notch");
+    assert_eq!(outline["orientation"]["angle_deg"], 270.0);
+    // Two sites: uniformity, and the centre (0,0) against the edge (90 mm): -1/11.
+    let wafer = &lot(&lots, "A")["wafer_results"][0];
+    let c2e = number(wafer, "centre_to_edge_percent");
+    assert!(relative_difference(c2e, -100.0 / 11.0) < 1e-12, "{c2e}");
+}

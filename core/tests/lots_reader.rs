@@ -379,6 +379,8 @@ fn outline_settings_reach_every_site_and_the_lot() {
             outcome.rows.iter().all(|r| r.outline == expected),
             "{settings:?}"
         );
+        let report = outcome.book.report(None);
+        assert_eq!(report.lots[0].outline, expected, "{settings:?}");
     }
     // 100000 um is 100 mm (unit conversion in f64).
     let outcome = read("# diameter: 100000 um\nlot,wafer,dopant,resistivity\nA,1,B,10\n");

@@ -9,6 +9,7 @@ use bandgauge_core::lots::map::{
     MAP_DEFINITIONS, STANDARD_DIAMETERS_MM, SurfaceFit, Uniformity, infer_diameter_mm,
     radial_profile, uniformity,
 };
+use bandgauge_core::lots::{LotBook, ReadOptions, read_str};
 
 /// SciPy's and NumPy's values are written with 17 significant digits; the interpolants are the
 /// same formula on the same (unique) triangulation, evaluated in a different order.
@@ -191,6 +192,35 @@ fn radial_profile_of_the_centre_high_pattern() {
         radial_profile(&[(0.0, 0.0, f64::NAN), (5.0, 0.0, 1.0)]),
         None
     );
+}
+
+#[test]
+fn the_lot_report_carries_uniformity_and_centre_to_edge() {
+    // Synthetic: the C2-4429 demo lot is centre-high by 11 % with 0.4 % noise per site
+    // (demo-wafers/make_patterned_lots.py), so each wafer's centre-to-edge is 11 % within a few
+    // percent of noise.
+    let text = include_str!("../../demo-wafers/c2-4429-radial.csv");
+    let mut book = LotBook::new();
+    read_str(text, &ReadOptions::default(), &mut book, &mut |_| {}).unwrap();
+    let report = book.report(None);
+    for wafer in &report.lots[0].wafer_results {
+        let c2e = wafer.centre_to_edge_percent.unwrap();
+        assert!((9.0..13.0).contains(&c2e), "wafer {}: {c2e}", wafer.wafer);
+        let u = wafer.uniformity.unwrap();
+        let r = &wafer.resistivity_ohm_cm;
+        close(
+            u.std_over_mean_percent,
+            r.nonuniformity_percent.unwrap(),
+            1e-12,
+            "std/mean",
+        );
+        close(
+            u.range_over_mean_percent,
+            100.0 * (r.max - r.min) / r.mean,
+            1e-12,
+            "range/mean",
+        );
+    }
 }
 
 #[test]

@@ -14,6 +14,7 @@ use crate::empirical::{
     EMPIRICAL_REFERENCE, EMPIRICAL_TEMPERATURE_K, EmpiricalRelation, density_from_resistivity_cm3,
 };
 use crate::lots::columns::Column;
+use crate::lots::map::{Uniformity, WaferOutline, radial_profile};
 use crate::lots::reader::{Measurement, RowCounts, RowRejection, Site, SiteSink};
 use crate::lots::stats::{
     KruskalWallis, MedianSketch, Moments, Summary, WelchTest, holm_adjusted, kruskal_wallis,
@@ -33,6 +34,11 @@ pub const SIGNIFICANCE_LEVEL: f64 = 0.05;
 /// Up to this many lots every pair is tested; beyond it each lot is tested against the first
 /// lot only, so the number of tests grows with the lots, not their square.
 pub const ALL_PAIRS_LOT_LIMIT: usize = 10;
+
+/// Per wafer the book keeps the positions and resistivities of at most this many sites for
+/// the centre-to-edge figure; a wafer with more positioned sites gets none (and a note), so
+/// memory stays bounded on very large files.
+pub const MAP_SITE_LIMIT: usize = 2000;
 
 /// How the report's figures are defined; printed with every result.
 pub const DEFINITIONS: Definitions = Definitions {
@@ -101,6 +107,8 @@ struct WaferTally {
     density_sketch: MedianSketch,
     largest_uncertainty: Option<f64>,
     sites_with_position: u64,
+    /// (x mm, y mm, resistivity) of positioned sites, up to [`MAP_SITE_LIMIT`].
+    positioned: Vec<(f64, f64, f64)>,
 }
 
 #[derive(Debug, Clone)]
@@ -112,6 +120,7 @@ struct LotTally {
     tally: Tally,
     wafers: Vec<WaferTally>,
     wafer_index: HashMap<String, usize>,
+    outline: WaferOutline,
 }
 
 /// Running tallies of every lot and wafer; see the module documentation.
@@ -201,6 +210,7 @@ impl LotBook {
                     density_sketch: MedianSketch::new(),
                     largest_uncertainty: None,
                     sites_with_position: 0,
+                    positioned: Vec::new(),
                 });
                 let i = lot.wafers.len() - 1;
                 lot.wafer_index.insert(site.wafer.to_owned(), i);
@@ -216,8 +226,11 @@ impl LotBook {
         if let Some(u) = site.uncertainty {
             wafer.largest_uncertainty = Some(wafer.largest_uncertainty.map_or(u, |w| w.max(u)));
         }
-        if site.x_mm.is_some() {
+        if let (Some(x), Some(y)) = (site.x_mm, site.y_mm) {
             wafer.sites_with_position += 1;
+            if wafer.positioned.len() < MAP_SITE_LIMIT {
+                wafer.positioned.push((x, y, site.resistivity_ohm_cm));
+            }
         }
         if site.dopant == "As" || site.dopant == "Sb" {
             self.used_phosphorus_for_other = true;
@@ -256,6 +269,7 @@ impl LotBook {
             tally: Tally::default(),
             wafers: Vec::new(),
             wafer_index: HashMap::new(),
+            outline: site.outline,
         });
         let l = self.lots.len() - 1;
         self.lot_index.insert(site.lot.to_owned(), l);
@@ -389,6 +403,8 @@ pub struct LotSummary {
     pub density_cm3: Summary,
     /// One entry per wafer, in the order wafers first appeared.
     pub wafer_results: Vec<WaferSummary>,
+    /// The wafer outline stated by the file of the lot's first site.
+    pub outline: WaferOutline,
 }
 
 /// How many wafers got each verdict.
@@ -421,6 +437,12 @@ pub struct WaferSummary {
     pub judgement: Option<Judgement>,
     /// Sites outside the window (no uncertainty applied).
     pub sites_outside: Option<u64>,
+    /// The uniformity figures of the sites' resistivity (`None` for one site).
+    pub uniformity: Option<Uniformity>,
+    /// 100 (centre - edge) / edge of the resistivity over the positioned sites
+    /// ([`radial_profile`](crate::lots::map::radial_profile)); `None` without sites near the
+    /// centre and at the edge, or beyond [`MAP_SITE_LIMIT`] positioned sites.
+    pub centre_to_edge_percent: Option<f64>,
 }
 
 /// Welch's t-test between two lots.
@@ -556,6 +578,18 @@ fn summarise_lot(
         .expect("a lot exists only once it has a site");
     let density = Summary::from_parts(&lot.tally.density, &density_sketch)
         .expect("a lot exists only once it has a site");
+    let beyond_limit = lot
+        .wafers
+        .iter()
+        .filter(|w| w.sites_with_position > MAP_SITE_LIMIT as u64)
+        .count();
+    if beyond_limit > 0 {
+        notes.push(format!(
+            "lot {}: {beyond_limit} wafer(s) have more than {MAP_SITE_LIMIT} sites with a \
+             position; their centre-to-edge figure is not computed",
+            lot.id
+        ));
+    }
     if spec.is_some() && wafer_results.iter().any(|w| w.uncertainty.is_none()) {
         notes.push(format!(
             "lot {}: some wafers have no measurement uncertainty; their verdict intervals hold \
@@ -579,6 +613,7 @@ fn summarise_lot(
         resistivity_ohm_cm: resistivity,
         density_cm3: density,
         wafer_results,
+        outline: lot.outline,
     };
     if let Some(window) = spec {
         let worst = summary
@@ -666,6 +701,20 @@ fn summarise_wafer(
             }
         },
     };
+    let uniformity = resistivity.std.and_then(|std| {
+        Uniformity::from_moments(
+            usize::try_from(resistivity.count).unwrap_or(usize::MAX),
+            resistivity.mean,
+            std,
+            resistivity.min,
+            resistivity.max,
+        )
+    });
+    let centre_to_edge_percent = if wafer.sites_with_position > MAP_SITE_LIMIT as u64 {
+        None
+    } else {
+        radial_profile(&wafer.positioned).map(|p| p.centre_to_edge_percent)
+    };
     WaferSummary {
         wafer: wafer.id.clone(),
         sites: wafer.tally.resistivity.count(),
@@ -675,6 +724,8 @@ fn summarise_wafer(
         uncertainty,
         judgement,
         sites_outside,
+        uniformity,
+        centre_to_edge_percent,
     }
 }
 

@@ -44,7 +44,7 @@ mod verdict;
 
 pub use book::{
     ALL_PAIRS_LOT_LIMIT, DEFINITIONS, Definitions, LotBook, LotDifference, LotRankTest, LotReport,
-    LotSummary, SIGNIFICANCE_LEVEL, VerdictCounts, WaferSummary,
+    LotSummary, MAP_SITE_LIMIT, SIGNIFICANCE_LEVEL, VerdictCounts, WaferSummary,
 };
 pub use columns::Column;
 pub use reader::{
