@@ -7,7 +7,9 @@
 
 use std::f64::consts::PI;
 
-use bandgauge_core::lots::map::{Grid, MapError, SurfaceFit};
+use bandgauge_core::lots::map::{
+    Grid, MapError, SurfaceFit, infer_diameter_mm, radial_profile, uniformity,
+};
 use proptest::prelude::*;
 
 /// Reproduction of a planar field: exact but for rounding in the barycentric weights.
@@ -365,6 +367,28 @@ proptest! {
             match SurfaceFit::new(&with_values(sites, |x, _| x)) {
                 Ok(fit) => check_valid(&fit, true).map_err(TestCaseError::fail)?,
                 Err(e) => return Err(TestCaseError::fail(e.to_string())),
+            }
+        }
+    }
+
+    #[test]
+    fn any_numbers_give_a_result_or_an_error_never_a_panic(
+        points in prop::collection::vec((any::<f64>(), any::<f64>(), any::<f64>()), 0..12),
+        tiny in prop::collection::vec((-1e-6..1e-6f64, -1e-6..1e-6f64, any::<f64>()), 0..12),
+    ) {
+        for set in [&points, &tiny] {
+            let xy: Vec<(f64, f64)> = set.iter().map(|&(x, y, _)| (x, y)).collect();
+            let values: Vec<f64> = set.iter().map(|&(_, _, v)| v).collect();
+            let _ = infer_diameter_mm(&xy);
+            let _ = radial_profile(set);
+            let _ = uniformity(&values);
+            if let Ok(fit) = SurfaceFit::new(set) {
+                // Areas of sites beyond 1e100 mm overflow in the check itself.
+                if xy.iter().all(|&(x, y)| x.abs() < 1e100 && y.abs() < 1e100) {
+                    check_valid(&fit, false).map_err(TestCaseError::fail)?;
+                }
+                let _ = fit.value_at(0.0, 0.0);
+                let _ = fit.raster(&Grid::covering(1e-6, 8));
             }
         }
     }

@@ -132,6 +132,10 @@ impl std::error::Error for MapError {}
 
 /// Sites closer than this (mm) are one site.
 const MERGE_DISTANCE_MM: f64 = 1e-9;
+/// Sites closer than this fraction of the pattern's extent are one site too: f64 cannot tell
+/// them apart in the triangulation's unit frame. For any pattern up to 1000 mm wide this is
+/// below [`MERGE_DISTANCE_MM`] and changes nothing.
+const MERGE_RELATIVE: f64 = 1e-12;
 /// The super-triangle's vertices lie this many site extents from the sites' centre.
 const SUPER_TRIANGLE_SCALE: f64 = 1.0e4;
 /// Relative tolerance of the in-circle test: a site counts as inside a circumcircle only
@@ -162,7 +166,8 @@ pub struct SurfaceFit {
 
 impl SurfaceFit {
     /// points: (x mm, y mm, value). Sites at the same position (within 1e-9 mm) are merged
-    /// into one with the mean value.
+    /// into one with the mean value (for patterns wider than 1000 mm, within 1e-12 of the
+    /// width, the resolution of f64 at that scale).
     ///
     /// # Errors
     /// [`MapError::NotFinite`] for a NaN or infinite coordinate or value,
@@ -175,7 +180,8 @@ impl SurfaceFit {
         {
             return Err(MapError::NotFinite { index });
         }
-        let points = merge_close(points);
+        let merge_distance = MERGE_DISTANCE_MM.max(MERGE_RELATIVE * extent_of(points));
+        let points = merge_close(points, merge_distance);
         if points.len() < 3 {
             return Err(MapError::TooFewSites {
                 distinct: points.len(),
@@ -331,9 +337,27 @@ impl Plane {
     }
 }
 
-/// Merges sites within [`MERGE_DISTANCE_MM`] into one at the first one's position with the
-/// mean value, keeping the order of first appearance.
-fn merge_close(points: &[(f64, f64, f64)]) -> Vec<(f64, f64, f64)> {
+/// The larger side of the sites' bounding box, mm (0 without sites).
+fn extent_of(points: &[(f64, f64, f64)]) -> f64 {
+    let (mut min_x, mut max_x, mut min_y, mut max_y) = (
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+    );
+    for &(x, y, _) in points {
+        min_x = min_x.min(x);
+        max_x = max_x.max(x);
+        min_y = min_y.min(y);
+        max_y = max_y.max(y);
+    }
+    let extent = (max_x - min_x).max(max_y - min_y);
+    if extent.is_finite() { extent } else { 0.0 }
+}
+
+/// Merges sites within `distance` into one at the first one's position with the mean value,
+/// keeping the order of first appearance.
+fn merge_close(points: &[(f64, f64, f64)], distance: f64) -> Vec<(f64, f64, f64)> {
     let mut order: Vec<usize> = (0..points.len()).collect();
     order.sort_by(|&i, &j| points[i].0.total_cmp(&points[j].0));
     let mut group = vec![usize::MAX; points.len()];
@@ -350,10 +374,10 @@ fn merge_close(points: &[(f64, f64, f64)]) -> Vec<(f64, f64, f64)> {
         let mut first = i;
         for &j in &order[k + 1..] {
             let (xj, yj, vj) = points[j];
-            if xj - xi > MERGE_DISTANCE_MM {
+            if xj - xi > distance {
                 break;
             }
-            if group[j] == usize::MAX && (xj - xi).hypot(yj - yi) <= MERGE_DISTANCE_MM {
+            if group[j] == usize::MAX && (xj - xi).hypot(yj - yi) <= distance {
                 group[j] = g;
                 sum += vj;
                 count += 1;
@@ -924,7 +948,10 @@ mod tests {
 
     #[test]
     fn merging_averages_values_at_one_position() {
-        let merged = merge_close(&[(0.0, 0.0, 1.0), (1.0, 0.0, 5.0), (0.0, 5e-10, 3.0)]);
+        let merged = merge_close(
+            &[(0.0, 0.0, 1.0), (1.0, 0.0, 5.0), (0.0, 5e-10, 3.0)],
+            MERGE_DISTANCE_MM,
+        );
         assert_eq!(merged, vec![(0.0, 0.0, 2.0), (1.0, 0.0, 5.0)]);
     }
 
