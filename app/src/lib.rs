@@ -10,6 +10,7 @@
 pub mod browser;
 pub mod carriers;
 pub mod chart;
+pub mod colormap;
 pub mod crash_panel;
 pub mod entry;
 pub mod format;
