@@ -5,7 +5,7 @@
 # demo-wafers/c2-4429-radial.csv and demo-wafers/c2-4432-hot-spot.csv byte for byte the same
 # every time (Python 3 `random` with a fixed seed, values rounded to 3 decimals).
 #
-# Both lots are 150 mm phosphorus-doped wafers measured at 49 sites in a polar pattern: the
+# Both lots are 150 mm phosphorus-doped wafers (notch at the bottom, 270 degrees) measured at 49 sites in a polar pattern: the
 # centre, 8 sites on a ring of 22 mm, 16 on a ring of 44 mm and 24 on a ring of 66 mm (each
 # ring starting on the +x axis). The demo spec window is 8 to 12 ohm cm.
 #
@@ -62,6 +62,7 @@ def hot_spot(rng, level, peak):
 def write(path, comment, lot, wafers):
     with open(path, "w", encoding="utf-8", newline="\n") as f:
         f.write(f"# {comment}\n# lot: {lot}\n# dopant: P\n# uncertainty: 1.5\n")
+        f.write("# diameter: 150 mm\n# notch: 270\n")
         f.write("wafer,site,x [mm],y [mm],resistivity [ohm-cm]\n")
         for wafer, rows in wafers:
             for site, x, y, rho in rows:
