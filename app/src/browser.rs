@@ -3,7 +3,9 @@
 //! app is plain Rust (the panic panel, `crash_panel`, builds its own DOM).
 
 use crate::chart::{self, ChartSpec};
-use plotters::prelude::IntoDrawingArea;
+use crate::colormap::Ramp;
+use crate::wafer_map::{self, MapLayout, MapSpec};
+use plotters::prelude::{IntoDrawingArea, WHITE};
 use plotters_canvas::CanvasBackend;
 use wasm_bindgen::{JsCast, JsValue};
 use web_sys::HtmlCanvasElement;
@@ -165,6 +167,82 @@ pub fn draw_chart(canvas: &HtmlCanvasElement, spec: &ChartSpec) -> Result<(), St
         .map_err(|e| format!("chart '{}': {e}", spec.title))
 }
 
+/// Publishes the latest wafer-map drawing time (surface, outline, sites and bar) as
+/// `data-map-ms` on `<body>` for benchmarks.
+pub fn publish_map_ms(ms: f64) {
+    if let Some(body) = window().and_then(|w| w.document()).and_then(|d| d.body()) {
+        let _ = body.set_attribute("data-map-ms", &format!("{ms:.3}"));
+    }
+}
+
+/// Draws the wafer map `spec` on `canvas` (backing store sized by the device pixel ratio, as
+/// [`draw_chart`]) and returns where each site landed, in CSS pixels from the canvas's top
+/// left corner, for the focusable site buttons over it.
+pub fn draw_map(canvas: &HtmlCanvasElement, spec: &MapSpec) -> Result<Vec<(f64, f64)>, String> {
+    let ratio = window()
+        .map(|w| w.device_pixel_ratio())
+        .unwrap_or(1.0)
+        .max(1.0);
+    let css_width = match canvas.client_width() {
+        w if w > 0 => f64::from(w),
+        _ => 640.0,
+    };
+    let css_height = match canvas.client_height() {
+        h if h > 0 => f64::from(h),
+        _ => 480.0,
+    };
+    let (width, height) = (
+        (css_width * ratio).round() as u32,
+        (css_height * ratio).round() as u32,
+    );
+    if canvas.width() != width {
+        canvas.set_width(width);
+    }
+    if canvas.height() != height {
+        canvas.set_height(height);
+    }
+    let layout = paint_map(canvas, spec, ratio)?;
+    Ok(spec
+        .sites
+        .iter()
+        .map(|s| {
+            let (x, y) = layout.to_pixel(spec.diameter_mm, s.x_mm, s.y_mm);
+            (f64::from(x) / ratio, f64::from(y) / ratio)
+        })
+        .collect())
+}
+
+/// Paints the map on a canvas already sized: white, then the surface as an image, then the
+/// outline, sites, colour bar and key with plotters.
+fn paint_map(canvas: &HtmlCanvasElement, spec: &MapSpec, ratio: f64) -> Result<MapLayout, String> {
+    let layout = MapLayout::new(canvas.width(), canvas.height(), ratio);
+    let context: web_sys::CanvasRenderingContext2d = canvas
+        .get_context("2d")
+        .ok()
+        .flatten()
+        .and_then(|c| c.dyn_into().ok())
+        .ok_or("the canvas has no 2d context")?;
+    let backend =
+        CanvasBackend::with_canvas_object(canvas.clone()).ok_or("the canvas has no 2d context")?;
+    let area = backend.into_drawing_area();
+    area.fill(&WHITE)
+        .map_err(|e| format!("map '{}': {e}", spec.title))?;
+    let pixels = wafer_map::surface_pixels(spec, &layout, &Ramp::new());
+    let image = web_sys::ImageData::new_with_u8_clamped_array_and_sh(
+        wasm_bindgen::Clamped(&pixels),
+        layout.side,
+        layout.side,
+    )
+    .map_err(|_| format!("map '{}': the surface image cannot be made", spec.title))?;
+    context
+        .put_image_data(&image, f64::from(layout.left), f64::from(layout.top))
+        .map_err(|_| format!("map '{}': the surface image cannot be drawn", spec.title))?;
+    wafer_map::draw(&area, spec, &layout)?;
+    area.present()
+        .map_err(|e| format!("map '{}': {e}", spec.title))?;
+    Ok(layout)
+}
+
 /// Starts a download of `url` under `file_name`.
 fn download(url: &str, file_name: &str) -> Result<(), String> {
     let document = window().and_then(|w| w.document()).ok_or("no document")?;
@@ -235,14 +313,7 @@ pub fn chart_image(
     css_height: u32,
     scale: f64,
 ) -> Result<String, String> {
-    let document = window().and_then(|w| w.document()).ok_or("no document")?;
-    let canvas: HtmlCanvasElement = document
-        .create_element("canvas")
-        .map_err(|_| "cannot create a canvas")?
-        .dyn_into()
-        .map_err(|_| "cannot create a canvas")?;
-    canvas.set_width((f64::from(css_width) * scale).round() as u32);
-    canvas.set_height((f64::from(css_height) * scale).round() as u32);
+    let canvas = fresh_canvas(css_width, css_height, scale)?;
     let backend =
         CanvasBackend::with_canvas_object(canvas.clone()).ok_or("the canvas has no 2d context")?;
     let area = backend.into_drawing_area();
@@ -252,6 +323,34 @@ pub fn chart_image(
     canvas
         .to_data_url()
         .map_err(|_| format!("chart '{}' cannot be turned into an image", spec.title))
+}
+
+/// Draws the wafer map `spec` on a fresh canvas (as [`chart_image`]) and returns it as a PNG
+/// `data:` URL.
+pub fn map_image(
+    spec: &MapSpec,
+    css_width: u32,
+    css_height: u32,
+    scale: f64,
+) -> Result<String, String> {
+    let canvas = fresh_canvas(css_width, css_height, scale)?;
+    paint_map(&canvas, spec, scale)?;
+    canvas
+        .to_data_url()
+        .map_err(|_| format!("map '{}' cannot be turned into an image", spec.title))
+}
+
+/// A canvas not on the page, `css_width` x `css_height` at `scale` device pixels each.
+fn fresh_canvas(css_width: u32, css_height: u32, scale: f64) -> Result<HtmlCanvasElement, String> {
+    let document = window().and_then(|w| w.document()).ok_or("no document")?;
+    let canvas: HtmlCanvasElement = document
+        .create_element("canvas")
+        .map_err(|_| "cannot create a canvas")?
+        .dyn_into()
+        .map_err(|_| "cannot create a canvas")?;
+    canvas.set_width((f64::from(css_width) * scale).round() as u32);
+    canvas.set_height((f64::from(css_height) * scale).round() as u32);
+    Ok(canvas)
 }
 
 /// Reads a picked file as UTF-8 text (invalid bytes become U+FFFD) and hands the text, or

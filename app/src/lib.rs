@@ -21,6 +21,7 @@ pub mod report;
 pub mod resistivity;
 pub mod state;
 pub mod sweep;
+pub mod wafer_map;
 pub mod widgets;
 
 use leptos::prelude::*;

@@ -7,7 +7,7 @@
 //! same. Charts are drawn again from the record's inputs onto images, which print.
 
 use bandgauge_core::empirical::EmpiricalRelation;
-use bandgauge_core::lots::{LotReport, WaferSummary};
+use bandgauge_core::lots::{LotReport, SpecQuantity, SpecWindow, WaferSummary};
 use leptos::prelude::*;
 
 use crate::Bench;
@@ -15,11 +15,12 @@ use crate::browser;
 use crate::carriers;
 use crate::chart::{ChartSpec, palette};
 use crate::entry;
-use crate::lots_view::{self, LotsInputs, LotsWork};
+use crate::lots_view::{self, LotsInputs, LotsWork, MapQuantity};
 use crate::record::{self, RecordError, RecordInputs, RecordedView, Replayed, SignoffRecord};
 use crate::resistivity;
 use crate::state::View;
 use crate::sweep;
+use crate::wafer_map::MapSpec;
 use crate::widgets::Caution;
 
 /// Size of a chart image in the report, CSS pixels: the width of an A4 or Letter page
@@ -133,6 +134,7 @@ fn lots_of(record: &SignoffRecord) -> Option<(LotsWork, LotsInputs)> {
             spec_max: l.spec_max.clone(),
             lot_filter: String::new(),
             map_wafer: String::new(),
+            ..LotsInputs::default()
         },
     ))
 }
@@ -209,28 +211,46 @@ pub fn charts(record: &SignoffRecord) -> Vec<ChartSpec> {
                     .ok()
                     .flatten();
             let report = work.report(spec.as_ref());
-            let mut charts: Vec<ChartSpec> =
-                lots_view::distribution_chart(&report, spec.as_ref(), None)
-                    .into_iter()
-                    .collect();
-            // Each map says why it is in the report.
-            let why = if spec.is_some() {
-                "the wafer that decides the lot's verdict"
-            } else {
-                "the lot's first wafer"
-            };
-            charts.extend(
-                report_wafers(&report)
-                    .into_iter()
-                    .filter_map(|(lot, wafer)| {
-                        let mut map = lots_view::wafer_map(&work.sites, lot, wafer, spec.as_ref())?;
-                        map.title = format!("{}: {why}", map.title);
-                        Some(map)
-                    }),
-            );
-            charts
+            lots_view::distribution_chart(&report, spec.as_ref(), None)
+                .into_iter()
+                .collect()
         }
     }
+}
+
+/// The wafer maps of a lot record: per lot the wafer that decides its verdict (without a spec
+/// window, its first wafer), in the quantity of the spec window (resistivity without one),
+/// each with its uniformity figures as lines of text.
+pub fn maps(record: &SignoffRecord) -> Vec<(MapSpec, Vec<String>)> {
+    let Some((work, inputs)) = lots_of(record) else {
+        return Vec::new();
+    };
+    let spec = lots_view::spec_from_inputs(&inputs.quantity, &inputs.spec_min, &inputs.spec_max)
+        .ok()
+        .flatten();
+    let quantity = match spec.as_ref().map(SpecWindow::quantity) {
+        Some(SpecQuantity::Density) => MapQuantity::Density,
+        _ => MapQuantity::Resistivity,
+    };
+    let report = work.report(spec.as_ref());
+    // Each map says why it is in the report.
+    let why = if spec.is_some() {
+        "the wafer that decides the lot's verdict"
+    } else {
+        "the lot's first wafer"
+    };
+    report_wafers(&report)
+        .into_iter()
+        .filter_map(|(lot, wafer)| {
+            let mut map =
+                lots_view::wafer_map(&work.sites, lot, wafer, spec.as_ref(), quantity, None)
+                    .ok()
+                    .flatten()?;
+            let lines = lots_view::map::figure_lines(&map);
+            map.title = format!("{}: {why}", map.title);
+            Some((map, lines))
+        })
+        .collect()
 }
 
 /// Most wafer maps one report prints.
@@ -358,6 +378,25 @@ fn chart_figure(spec: &ChartSpec) -> impl IntoView + use<> {
     }
 }
 
+/// Size of a wafer map in the report, CSS pixels.
+const MAP_CSS: (u32, u32) = (680, 470);
+
+/// One wafer map as an image with its figures under it, or why it could not be drawn.
+fn map_figure((spec, lines): &(MapSpec, Vec<String>)) -> impl IntoView + use<> {
+    let title = spec.title.clone();
+    let lines = lines.clone();
+    match browser::map_image(spec, MAP_CSS.0, MAP_CSS.1, CHART_SCALE) {
+        Ok(url) => view! {
+            <figure class="signoff-chart">
+                <img src=url alt=title data-testid="report-map" />
+                <figcaption class="note">{lines.join("; ")}</figcaption>
+            </figure>
+        }
+        .into_any(),
+        Err(e) => view! { <p class="message">{e}</p> }.into_any(),
+    }
+}
+
 /// One result table; words (regimes, verdicts, remarks) are set left, numbers right, and a
 /// verdict carries its sign as on the lots view.
 fn result_table(s: record::ResultSection) -> impl IntoView {
@@ -433,6 +472,7 @@ fn ReportPage(record: SignoffRecord, on_close: Callback<()>) -> impl IntoView {
     });
     let inputs = record::input_lines(&record);
     let figures = charts(&record);
+    let wafer_maps = maps(&record);
     let models: Vec<(String, String, String)> = record
         .results
         .models
@@ -506,6 +546,15 @@ fn ReportPage(record: SignoffRecord, on_close: Callback<()>) -> impl IntoView {
                             {figures.first().map(chart_figure)}
                         </div>
                         {figures.iter().skip(1).map(chart_figure).collect_view()}
+                    </section>
+                })}
+                {(!wafer_maps.is_empty()).then(|| view! {
+                    <section class="signoff-section signoff-charts">
+                        <div class="keep-together">
+                            <h2>"Wafer maps"</h2>
+                            {wafer_maps.first().map(map_figure)}
+                        </div>
+                        {wafer_maps.iter().skip(1).map(map_figure).collect_view()}
                     </section>
                 })}
                 <section class="signoff-section">
@@ -649,8 +698,8 @@ mod tests {
             (View::Carriers, 1),
             (View::Sweep, 3),
             (View::Resistivity, 1),
-            // The distribution chart and a wafer map for each of the six demo lots.
-            (View::Lots, 7),
+            // The distribution chart (the wafer maps are apart, `maps`).
+            (View::Lots, 1),
         ] {
             let snapshot = demo_snapshot(true);
             let lots = (view == View::Lots).then_some(&snapshot);
@@ -660,6 +709,27 @@ mod tests {
             };
             let record = record_of_page(workbench, lots, CREATED).expect("record");
             assert_eq!(charts(&record).len(), count, "{view:?}");
+        }
+    }
+
+    #[test]
+    fn a_lot_record_maps_the_deciding_wafer_of_each_lot() {
+        let snapshot = demo_snapshot(true);
+        let workbench = Workbench {
+            view: View::Lots,
+            ..Workbench::default()
+        };
+        let record = record_of_page(workbench, Some(&snapshot), CREATED).expect("record");
+        let maps = maps(&record);
+        // A wafer map for each of the six demo lots, each with its figures.
+        assert_eq!(maps.len(), 6);
+        for (map, lines) in &maps {
+            assert!(
+                map.title.contains("decides the lot's verdict"),
+                "{}",
+                map.title
+            );
+            assert!(lines.iter().any(|l| l.starts_with("std/mean")), "{lines:?}");
         }
     }
 

@@ -2,7 +2,9 @@
 //! visible chart redrawn, per view, and time from picking a 100,000-row lot file to its summary
 //! shown. Run by `cargo xtask bench` after a release build; prints
 //! `browser_redraw_<view>_ms=<median>`, `browser_lots_100k_rows_first_read_ms=<ms>` and
-//! `browser_lots_100k_rows_ms=<median of the next five>` lines that xtask puts in its table.
+//! `browser_lots_100k_rows_ms=<median of the next five>`, `browser_map_121_sites_ms=<median>`
+//! (drawing a 121-site wafer map with its surface) and `browser_lot_switch_100_wafers_ms=<median>`
+//! (switching the lots view between two lots of 100 wafers) lines that xtask puts in its table.
 //!
 //! The page publishes the time of its last redraw (performance.now from the input event to the
 //! last chart drawn) in `<body data-redraw-ms>`. Other processes on a shared machine only ever
@@ -134,6 +136,133 @@ async fn lot_read_times(client: &fantoccini::Client) -> Vec<f64> {
     times
 }
 
+/// Two lots of 100 wafers, each wafer measured at 121 sites on a 200 mm wafer (the centre and
+/// rings of 12, 18, 24, 30 and 36 sites at 15 to 75 mm), with a centre-high pattern and a
+/// little variation between wafers (invented, for timing only).
+fn map_lot_file() -> String {
+    let mut text = String::from(
+        "# diameter: 200 mm\n# notch: 270\nlot,wafer,site,x [mm],y [mm],dopant,resistivity [ohm-cm]\n",
+    );
+    for lot in ["MX-1", "MX-2"] {
+        for wafer in 1..=100 {
+            let mut site = 0;
+            for (ring, count) in [
+                (0.0f64, 1),
+                (15.0, 12),
+                (30.0, 18),
+                (45.0, 24),
+                (60.0, 30),
+                (75.0, 36),
+            ] {
+                for k in 0..count {
+                    site += 1;
+                    let a = std::f64::consts::TAU * f64::from(k) / f64::from(count);
+                    let (x, y) = (ring * a.cos(), ring * a.sin());
+                    let rho = (10.0 + 0.01 * f64::from(wafer))
+                        * (1.0 + 0.1 * (1.0 - (ring / 75.0).powi(2)))
+                        + 0.002 * f64::from(k % 7);
+                    text.push_str(&format!(
+                        "{lot},{wafer:03},{site},{x:.2},{y:.2},B,{rho:.4}\n"
+                    ));
+                }
+            }
+        }
+    }
+    text
+}
+
+/// Sets `[data-testid=id]` to each of `values` by a change event and returns, per change, the
+/// milliseconds until the page has done all the work the change caused (the next task after
+/// the event: Leptos runs its effects, and so every redraw, in microtasks before it) and the
+/// map's own drawing time (`<body data-map-ms>`, surface, outline, sites and colour bar).
+async fn change_times(client: &fantoccini::Client, id: &str, values: &[String]) -> Vec<(f64, f64)> {
+    let script = r#"
+        const [id, values] = [arguments[0], arguments[1]];
+        const done = arguments[arguments.length - 1];
+        const el = document.querySelector('[data-testid="' + id + '"]');
+        const times = [];
+        const channel = new MessageChannel();
+        let i = 0, t0 = 0;
+        channel.port1.onmessage = () => {
+            times.push([performance.now() - t0, parseFloat(document.body.dataset.mapMs)]);
+            setTimeout(step, 30);
+        };
+        function step() {
+            if (i >= values.length) { done(times); return; }
+            document.body.removeAttribute('data-map-ms');
+            el.value = values[i++];
+            t0 = performance.now();
+            el.dispatchEvent(new Event('change', { bubbles: true }));
+            channel.port2.postMessage(0);
+        }
+        step();
+    "#;
+    let v = client
+        .execute_async(
+            script,
+            vec![serde_json::json!(id), serde_json::json!(values)],
+        )
+        .await
+        .expect("timing script");
+    v.as_array()
+        .expect("times")
+        .iter()
+        .map(|t| {
+            (
+                t[0].as_f64().unwrap_or(f64::NAN),
+                t[1].as_f64().unwrap_or(f64::NAN),
+            )
+        })
+        .collect()
+}
+
+/// Milliseconds to draw a 121-site wafer map with its surface, and to switch between two lots of
+/// 100 wafers (summary, lot chart, wafer table, map and radial profile all redone).
+async fn map_times(client: &fantoccini::Client) -> (f64, f64) {
+    let file = TempFile::new("bench", "map-lots.csv", &map_lot_file());
+    by_testid(client, "lots-files")
+        .await
+        .send_keys(&file.path())
+        .await
+        .expect("give the file input a path");
+    let deadline = Instant::now() + LOT_WAIT;
+    while !by_testid(client, "lots-status")
+        .await
+        .text()
+        .await
+        .unwrap_or_default()
+        .contains("24200 rows read")
+    {
+        assert!(Instant::now() < deadline, "the map lot file was not read");
+        tokio::time::sleep(Duration::from_millis(100)).await;
+    }
+    canvas_drawn(client, "lots-map", MIN_INKED_PIXELS).await;
+    run_script(
+        client,
+        "document.querySelector('[data-testid=\"lots-map\"]').scrollIntoView({block: 'center'});",
+    )
+    .await;
+    let wafers = series(21, |i| format!("MX-1|{:03}", 1 + i));
+    let mut map_best = f64::INFINITY;
+    for _round in 0..3 {
+        let times = change_times(client, "lots-map-wafer", &wafers).await;
+        map_best = map_best.min(median(times.iter().map(|t| t.1).collect()));
+    }
+    let lots = series(21, |i| {
+        if i % 2 == 0 {
+            "MX-2".into()
+        } else {
+            "MX-1".into()
+        }
+    });
+    let mut switch_best = f64::INFINITY;
+    for _round in 0..3 {
+        let times = change_times(client, "lots-filter", &lots).await;
+        switch_best = switch_best.min(median(times.iter().map(|t| t.0).collect()));
+    }
+    (map_best, switch_best)
+}
+
 fn series(n: usize, f: impl Fn(usize) -> String) -> Vec<String> {
     (0..n).map(f).collect()
 }
@@ -167,6 +296,12 @@ async fn main() {
         {
             println!("browser_redraw_{view}_ms={ms:.3}");
         }
+        click(&client, "tab-lots").await;
+        by_testid(&client, "lots-files").await;
+        let (map, switch) = map_times(&client).await;
+        println!("browser_map_121_sites_ms={map:.3}");
+        println!("browser_lot_switch_100_wafers_ms={switch:.3}");
+        client.refresh().await.expect("reload");
         click(&client, "tab-lots").await;
         by_testid(&client, "lots-files").await;
         let times = lot_read_times(&client).await;

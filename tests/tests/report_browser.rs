@@ -211,7 +211,7 @@ async fn point_calculation_report_prints_inputs_models_results_and_caution() {
             );
         }
         // The band diagram is on the page as a drawn image.
-        assert_eq!(report_chart_count(&client, 1).await, 1);
+        assert_eq!(image_count(&client, "report-chart", 1).await, 1);
     })
     .await;
 }
@@ -232,11 +232,12 @@ async fn lot_comparison_report_prints_the_spec_window_and_every_verdict() {
         }
         click(&client, "report-open").await;
         by_testid(&client, "report").await;
-        // The distribution chart and one wafer map per lot: the wafer that decides its verdict.
-        assert_eq!(report_chart_count(&client, 7).await, 7);
+        // The distribution chart, and one wafer map per lot: the wafer that decides its verdict.
+        assert_eq!(image_count(&client, "report-chart", 1).await, 1);
+        assert_eq!(image_count(&client, "report-map", 6).await, 6);
         let titles = client
             .execute(
-                "return Array.from(document.querySelectorAll('[data-testid=\"report-chart\"]')) \
+                "return Array.from(document.querySelectorAll('[data-testid=\"report-map\"]')) \
                  .map(i => i.alt);",
                 vec![],
             )
@@ -250,7 +251,9 @@ async fn lot_comparison_report_prints_the_spec_window_and_every_verdict() {
             .collect();
         // Source: demo-wafers/README.md (the invented scenario): wafer 07 decides C2-4425.
         assert!(
-            titles.contains(&"Wafer 07 of lot C2-4425: the wafer that decides the lot's verdict"),
+            titles.contains(
+                &"Wafer 07 of lot C2-4425, resistivity: the wafer that decides the lot's verdict"
+            ),
             "report charts: {titles:?}"
         );
         screenshot(&client, "report-lots-1366").await;
@@ -451,16 +454,16 @@ async fn a_saved_record_reopens_identically_and_a_changed_one_is_refused() {
     .await;
 }
 
-/// The number of decoded chart images (at least 600 pixels wide) in the open report, polled
-/// until it reaches `wanted` or 10 s pass.
-async fn report_chart_count(client: &Client, wanted: u64) -> u64 {
+/// The number of decoded images `[data-testid=testid]` (at least 600 pixels wide) in the open
+/// report, polled until it reaches `wanted` or 10 s pass.
+async fn image_count(client: &Client, testid: &str, wanted: u64) -> u64 {
     let deadline = Instant::now() + Duration::from_secs(10);
     loop {
         let v = client
             .execute(
-                "return Array.from(document.querySelectorAll('[data-testid=\"report-chart\"]')) \
+                "return Array.from(document.querySelectorAll('[data-testid=\"' + arguments[0] + '\"]')) \
                  .filter(i => i.complete && i.naturalWidth > 600).length;",
-                vec![],
+                vec![serde_json::json!(testid)],
             )
             .await
             .expect("count chart images");
@@ -489,7 +492,7 @@ async fn sweep_and_conversion_reports_carry_their_tables_and_charts() {
                 "100", "150", "200", "250", "300", "350", "400", "450", "500", "550", "600"
             ]
         );
-        assert_eq!(report_chart_count(&client, 3).await, 3);
+        assert_eq!(image_count(&client, "report-chart", 3).await, 3);
         screenshot(&client, "report-sweep-1366").await;
         let text = print_pdf(&client, "report-sweep").await;
         assert_has(&text, "Carriers and Fermi level by temperature");
@@ -511,7 +514,7 @@ async fn sweep_and_conversion_reports_carry_their_tables_and_charts() {
             rows.iter().any(|r| r[0] == "Spread: largest / smallest"),
             "{rows:?}"
         );
-        assert_eq!(report_chart_count(&client, 1).await, 1);
+        assert_eq!(image_count(&client, "report-chart", 1).await, 1);
         let text = print_pdf(&client, "report-conversion").await;
         assert_has(&text, "Every model side by side (silicon, 23 C)");
         assert_has(&text, "Four-point probe result");

@@ -4,7 +4,6 @@
 use bandgauge_core::lots::stats::{Summary, quartiles};
 use bandgauge_core::lots::{LotReport, LotSummary, SpecQuantity, SpecWindow, Verdict};
 
-use super::work::SitePoint;
 use crate::chart::{Axis, ChartSpec, Color, Corner, Mark, Series, Shape, palette};
 use crate::format;
 
@@ -228,64 +227,6 @@ const WAFER_MEANS_OFFSET: f64 = 0.32;
 const WAFER_MEANS_WIDTH: f64 = 0.26;
 /// The spec limits' colour: a dark violet, apart from the three verdict colours.
 const SPEC_LINE_COLOR: Color = Color(0x5b, 0x2a, 0x86);
-
-/// The sites of one wafer at their x/y positions, each labelled with its value and coloured by
-/// whether it lies in the window. `None` when the wafer has no positioned sites.
-pub fn wafer_map(
-    sites: &[SitePoint],
-    lot: &str,
-    wafer: &str,
-    spec: Option<&SpecWindow>,
-) -> Option<ChartSpec> {
-    let quantity = spec.map_or(SpecQuantity::Resistivity, SpecWindow::quantity);
-    let marks: Vec<Mark> = sites
-        .iter()
-        .filter(|s| *s.lot == *lot && *s.wafer == *wafer)
-        .filter_map(|s| {
-            let (x, y) = (s.x_mm?, s.y_mm?);
-            let value = match quantity {
-                SpecQuantity::Density => s.density_cm3,
-                _ => s.resistivity_ohm_cm,
-            };
-            let side = spec.map(|w| site_side(w, value));
-            let verdict = side.map(|s| {
-                if s.is_empty() {
-                    Verdict::Pass
-                } else {
-                    Verdict::Fail
-                }
-            });
-            // A site outside the window says so in words, not only in colour.
-            let label = match side {
-                Some(s) if !s.is_empty() => format!("{} {s}", format::auto(value)),
-                _ => format::auto(value),
-            };
-            Some(Mark::Point {
-                x,
-                y,
-                label,
-                color: verdict_color(verdict),
-            })
-        })
-        .collect();
-    if marks.is_empty() {
-        return None;
-    }
-    let reach = sites
-        .iter()
-        .filter_map(|s| Some(s.x_mm?.abs().max(s.y_mm?.abs())))
-        .fold(10.0f64, f64::max);
-    // Labels sit above and right of their points: more room on those sides.
-    Some(ChartSpec {
-        title: format!("Wafer {wafer} of lot {lot}"),
-        file_stem: format!("bandgauge-wafer-{lot}-{wafer}"),
-        x: Axis::linear("x, mm").with_range(-1.15 * reach, 1.5 * reach),
-        y: Axis::linear("y, mm").with_range(-1.15 * reach, 1.3 * reach),
-        series: Vec::new(),
-        marks,
-        legend: Corner::TopRight,
-    })
-}
 
 /// Where a site value lies against the window: "low", "high", or "" inside.
 pub(super) fn site_side(window: &SpecWindow, value: f64) -> &'static str {

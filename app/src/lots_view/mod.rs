@@ -10,6 +10,7 @@
 //! holds while another view is shown and hands it to the sign-off record.
 
 mod charts;
+pub mod map;
 mod reading;
 mod snapshot;
 mod summary;
@@ -20,7 +21,8 @@ mod work;
 #[cfg(test)]
 mod tests;
 
-pub use charts::{distribution_chart, distribution_lines, wafer_map};
+pub use charts::{distribution_chart, distribution_lines};
+pub use map::{MapQuantity, radial_chart, wafer_map};
 pub use snapshot::{LotsInputs, LotsSnapshot, install, is_reading, snapshot};
 pub use summary::{DifferenceRow, HOLM_ADJUSTMENT, difference_rows, models_used, summary_csv};
 pub use view::LotsView;

@@ -25,6 +25,10 @@ pub struct LotsInputs {
     pub lot_filter: String,
     /// Wafer on the map, as `lot|wafer` ("" for the first).
     pub map_wafer: String,
+    /// What the map colours, as the menu value ("" for resistivity).
+    pub map_quantity: String,
+    /// The wafer diameter as typed, mm ("" for the file's or the inferred one).
+    pub map_diameter: String,
 }
 
 thread_local! {
@@ -97,6 +101,7 @@ pub fn snapshot() -> LotsSnapshot {
             spec_max: live.spec_max.get_untracked(),
             lot_filter: live.lot_filter.get_untracked(),
             map_wafer: live.map_wafer.get_untracked(),
+            ..LotsInputs::default()
         };
         let busy = live.handles.busy.get_untracked();
         if let Some(s) = live

@@ -5,6 +5,7 @@ use bandgauge_core::lots::{SpecQuantity, SpecWindow, Verdict};
 use super::charts::site_side;
 use super::*;
 use crate::chart::{Mark, Shape};
+use crate::wafer_map::Side;
 
 fn demo_work() -> LotsWork {
     let mut work = LotsWork::new(None);
@@ -283,11 +284,18 @@ fn verdicts_and_outside_sites_are_written_not_only_coloured() {
         assert!(line.contains("middle half of the wafer means"), "{line}");
     }
     // Every site of C2-4421 wafer 11 lies below 8 ohm cm.
-    let map = wafer_map(&work.sites, "C2-4421", "11", spec.as_ref()).unwrap();
-    assert!(map.marks.iter().all(|m| match m {
-        Mark::Point { label, .. } => label.ends_with(" low"),
-        _ => false,
-    }));
+    let map = wafer_map(
+        &work.sites,
+        "C2-4421",
+        "11",
+        spec.as_ref(),
+        MapQuantity::Resistivity,
+        None,
+    )
+    .unwrap()
+    .unwrap();
+    assert!(!map.sites.is_empty());
+    assert!(map.sites.iter().all(|s| s.side == Side::Low));
     let window = SpecWindow::parse(SpecQuantity::Resistivity, "8:12").unwrap();
     assert_eq!(site_side(&window, 7.9), "low");
     assert_eq!(site_side(&window, 12.1), "high");
@@ -317,8 +325,18 @@ fn exports_charts_and_spec_inputs() {
     let csv = crate::chart::to_csv(&chart);
     assert!(csv.contains("\nC2-4417 site range,C2-4417,"), "{csv}");
     assert!(distribution_chart(&report, spec.as_ref(), Some("C2-4421")).is_some());
-    let map = wafer_map(&work.sites, "C2-4417", "01", spec.as_ref()).unwrap();
-    assert_eq!(map.marks.len(), 13);
+    let map = wafer_map(
+        &work.sites,
+        "C2-4417",
+        "01",
+        spec.as_ref(),
+        MapQuantity::Resistivity,
+        None,
+    )
+    .unwrap()
+    .unwrap();
+    assert_eq!(map.sites.len(), 13);
+    assert_eq!(crate::wafer_map::to_csv(&map).lines().count(), 1 + 13);
     assert_eq!(spec_from_inputs("density", "", "").unwrap(), None);
     assert!(spec_from_inputs("resistivity", "12", "8").is_err());
 }

@@ -4,7 +4,8 @@
 use bandgauge_core::lots::SpecQuantity;
 use leptos::prelude::*;
 
-use super::charts::{distribution_chart, distribution_lines, wafer_map};
+use super::charts::{distribution_chart, distribution_lines};
+use super::map::{MapPanel, MapQuantity, map_definitions, parse_diameter, radial_chart, wafer_map};
 use super::reading::{Handles, Source, files_of, read_sources};
 use super::snapshot::{KEPT, LIVE, Live, LotsInputs};
 use super::summary::{HOLM_ADJUSTMENT, difference_rows, models_used, summary_csv};
@@ -43,6 +44,8 @@ pub fn LotsView(
     let spec_max = RwSignal::new(kept_inputs.spec_max);
     let lot_filter = RwSignal::new(kept_inputs.lot_filter);
     let map_wafer = RwSignal::new(kept_inputs.map_wafer);
+    let map_quantity = RwSignal::new(MapQuantity::from_id(&kept_inputs.map_quantity));
+    let map_diameter = RwSignal::new(kept_inputs.map_diameter);
     let export_error = RwSignal::new(None::<String>);
     let wafers_shown = RwSignal::new(WaferFilter::All);
     let wafers_sort = RwSignal::new(None::<WaferSort>);
@@ -75,6 +78,8 @@ pub fn LotsView(
             spec_max: spec_max.get_untracked(),
             lot_filter: lot_filter.get_untracked(),
             map_wafer: map_wafer.get_untracked(),
+            map_quantity: map_quantity.get_untracked().id().to_owned(),
+            map_diameter: map_diameter.get_untracked(),
         };
         if let Some(w) = work.try_update_value(std::mem::take) {
             KEPT.with(|k| *k.borrow_mut() = Some((w, inputs)));
@@ -213,12 +218,26 @@ pub fn LotsView(
             choices.into_iter().next()
         }
     });
-    let map = Signal::derive(move || {
+    let diameter_setting = Memo::new(move |_| map_diameter.with(|t| parse_diameter(t)));
+    // The map, or why it cannot be drawn; timed for the benchmark (`data-map-compute-ms`).
+    let map_result = Memo::new(move |_| {
         finished.track();
         let window = spec.get().ok().flatten();
         let choice = map_choice.get()?;
         let (lot, wafer) = choice.split_once('|')?;
-        work.with_value(|w| wafer_map(&w.sites, lot, wafer, window.as_ref()))
+        let setting = diameter_setting.get().ok().flatten();
+        let quantity = map_quantity.get();
+        work.with_value(|w| wafer_map(&w.sites, lot, wafer, window.as_ref(), quantity, setting))
+            .transpose()
+    });
+    let map = Signal::derive(move || map_result.get().and_then(Result::ok));
+    let map_problem = move || map_result.get().and_then(Result::err);
+    let radial = Signal::derive(move || {
+        finished.track();
+        let choice = map_choice.get()?;
+        let (lot, wafer) = choice.split_once('|')?;
+        let quantity = map_quantity.get();
+        work.with_value(|w| radial_chart(&w.sites, lot, wafer, quantity))
     });
     let export_rows = move |_| {
         let window = spec.get_untracked().ok().flatten();
@@ -429,26 +448,55 @@ pub fn LotsView(
                         </details>
                     </div>
                     <div class="lots-map">
-                        <div class="field">
-                            <label for="lots-map-wafer">"Wafer map"</label>
-                            <select id="lots-map-wafer" data-testid="lots-map-wafer"
-                                prop:value=move || map_choice.get().unwrap_or_default()
-                                on:change=move |ev| map_wafer.set(event_target_value(&ev))>
-                                {move || {
-                                    let current = map_choice.get().unwrap_or_default();
-                                    map_choices().into_iter().map(|c| {
-                                        let text = c.replacen('|', ", wafer ", 1);
-                                        let selected = c == current;
-                                        view! { <option value=c selected=selected>{text}</option> }
-                                    }).collect_view()
-                                }}
-                            </select>
-                            <span class="hint">"Site values at their x, y; outside the window marked low or high."</span>
+                        <div class="map-controls">
+                            <div class="field">
+                                <label for="lots-map-wafer">"Wafer map"</label>
+                                <select id="lots-map-wafer" data-testid="lots-map-wafer"
+                                    prop:value=move || map_choice.get().unwrap_or_default()
+                                    on:change=move |ev| map_wafer.set(event_target_value(&ev))>
+                                    {move || {
+                                        let current = map_choice.get().unwrap_or_default();
+                                        map_choices().into_iter().map(|c| {
+                                            let text = c.replacen('|', ", wafer ", 1);
+                                            let selected = c == current;
+                                            view! { <option value=c selected=selected>{text}</option> }
+                                        }).collect_view()
+                                    }}
+                                </select>
+                            </div>
+                            <div class="field">
+                                <label for="lots-map-quantity">"Colour by"</label>
+                                <select id="lots-map-quantity" data-testid="lots-map-quantity"
+                                    on:change=move |ev| map_quantity.set(MapQuantity::from_id(&event_target_value(&ev)))>
+                                    {MapQuantity::ALL.into_iter().map(|q| view! {
+                                        <option value=q.id() selected=move || map_quantity.get() == q>{format!("{}, {}", q.name(), q.unit())}</option>
+                                    }).collect_view()}
+                                </select>
+                            </div>
+                            <div class="field">
+                                <label for="lots-map-diameter">"Wafer diameter, mm"</label>
+                                <input id="lots-map-diameter" data-testid="lots-map-diameter" type="text"
+                                    inputmode="decimal" placeholder="from the file"
+                                    prop:value=move || map_diameter.get()
+                                    on:input=move |ev| map_diameter.set(event_target_value(&ev))
+                                    aria-describedby="lots-map-diameter-error" />
+                                <span class="message" id="lots-map-diameter-error" data-testid="lots-map-diameter-error" role="alert">
+                                    {move || diameter_setting.get().err()}
+                                </span>
+                            </div>
                         </div>
+                        <p class="hint">"Hover over a site, or move to it with Tab, for its value; the sites are also listed as a table under the map."</p>
                         {move || map_choices().is_empty().then(|| view! {
                             <p class="hint" data-testid="lots-map-none">"No site positions (x, y) in these files."</p>
                         })}
-                        <ChartPanel id="lots-map" spec=map layout=bench.layout input_at=bench.input_at />
+                        {move || map_problem().map(|p| view! { <p class="message" data-testid="lots-map-problem">{p}</p> })}
+                        // Nothing stale: without a map (no such quantity) neither picture shows.
+                        <Show when=move || map.with(Option::is_some)>
+                            <MapPanel spec=map layout=bench.layout input_at=bench.input_at />
+                        </Show>
+                        <Show when=move || radial.with(Option::is_some)>
+                            <ChartPanel id="lots-radial" spec=radial layout=bench.layout input_at=bench.input_at />
+                        </Show>
                     </div>
                 </div>
                 <div class="panel lots-panel">
@@ -544,6 +592,9 @@ pub fn LotsView(
                                     .map(|t| view! { <li>{t}</li> })
                                     .collect_view()
                             })}
+                            {map_definitions().into_iter().map(|(term, text)| view! {
+                                <li data-testid="lots-map-definition">{format!("{term}: {text}")}</li>
+                            }).collect_view()}
                         </ul>
                     </details>
                 </div>

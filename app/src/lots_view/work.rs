@@ -4,9 +4,10 @@
 use std::fmt::Write as _;
 use std::rc::Rc;
 
+use bandgauge_core::lots::map::WaferOutline;
 use bandgauge_core::lots::{
-    LotBook, LotFileError, LotReader, LotReport, ReadOptions, RowCounts, RowOutcome, SpecQuantity,
-    SpecWindow,
+    LotBook, LotFileError, LotReader, LotReport, Measurement, ReadOptions, RowCounts, RowOutcome,
+    SpecQuantity, SpecWindow,
 };
 
 use super::summary::csv_field;
@@ -69,6 +70,11 @@ pub struct SitePoint {
     pub resistivity_ohm_cm: f64,
     /// Density, cm^-3.
     pub density_cm3: f64,
+    /// Sheet resistance, ohm/sq, when the row gives one (sheet-resistance, four-point-probe
+    /// and van der Pauw rows).
+    pub sheet_ohm_sq: Option<f64>,
+    /// What the file says about the wafer outline (diameter, notch or flat).
+    pub outline: WaferOutline,
 }
 
 /// Everything read so far: the core's lot book, the file in progress, and what the page lists.
@@ -277,6 +283,8 @@ fn collect<'a>(
                     dopant: site.dopant,
                     resistivity_ohm_cm: site.resistivity_ohm_cm,
                     density_cm3: site.density_cm3,
+                    sheet_ohm_sq: sheet_resistance(&site.measurement),
+                    outline: site.outline,
                 });
             }
         }
@@ -293,6 +301,25 @@ fn collect<'a>(
                 });
             }
         }
+    }
+}
+
+/// The sheet resistance a row gives, ohm/sq.
+fn sheet_resistance(measurement: &Measurement) -> Option<f64> {
+    match *measurement {
+        Measurement::Resistivity => None,
+        Measurement::SheetResistance {
+            sheet_resistance_ohm_sq,
+            ..
+        }
+        | Measurement::VanDerPauw {
+            sheet_resistance_ohm_sq,
+            ..
+        } => Some(sheet_resistance_ohm_sq),
+        Measurement::Probe {
+            sheet_resistance_ohm_sq,
+            ..
+        } => sheet_resistance_ohm_sq,
     }
 }
 

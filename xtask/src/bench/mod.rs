@@ -132,6 +132,10 @@ fn browser_rows(table: &mut Vec<(String, String)>) -> Result<(), String> {
                 "browser: input to charts redrawn, {}",
                 view.trim_end_matches("_ms")
             )
+        } else if name == "browser_map_121_sites_ms" {
+            "browser: wafer map of 121 sites with its surface drawn (target 16 ms)".into()
+        } else if name == "browser_lot_switch_100_wafers_ms" {
+            "browser: lots view switched between two lots of 100 wafers (target 50 ms)".into()
         } else if let Some(what) = name.strip_prefix("browser_lots_") {
             format!(
                 "browser: lot file read, converted, summarised, {}",
