@@ -133,21 +133,21 @@ pub fn publish_redraw_ms(ms: f64) {
     }
 }
 
-/// Draws `spec` on `canvas`, sizing the backing store by the device pixel ratio so the
-/// chart stays crisp on high-DPI screens. The CSS size is left to the stylesheet.
-pub fn draw_chart(canvas: &HtmlCanvasElement, spec: &ChartSpec) -> Result<(), String> {
+/// Sizes the canvas's backing store to its CSS size times the device pixel ratio (a canvas not
+/// laid out yet, in a hidden tab, reports 0: it gets 640 x `default_css_height`) and returns
+/// the ratio.
+fn fit_backing_store(canvas: &HtmlCanvasElement, default_css_height: f64) -> f64 {
     let ratio = window()
         .map(|w| w.device_pixel_ratio())
         .unwrap_or(1.0)
         .max(1.0);
-    // A canvas not laid out yet (hidden tab) reports 0; draw at a sensible size anyway.
     let css_width = match canvas.client_width() {
         w if w > 0 => f64::from(w),
         _ => 640.0,
     };
     let css_height = match canvas.client_height() {
         h if h > 0 => f64::from(h),
-        _ => 360.0,
+        _ => default_css_height,
     };
     let (width, height) = (
         (css_width * ratio).round() as u32,
@@ -159,6 +159,13 @@ pub fn draw_chart(canvas: &HtmlCanvasElement, spec: &ChartSpec) -> Result<(), St
     if canvas.height() != height {
         canvas.set_height(height);
     }
+    ratio
+}
+
+/// Draws `spec` on `canvas`, sizing the backing store by the device pixel ratio so the
+/// chart stays crisp on high-DPI screens. The CSS size is left to the stylesheet.
+pub fn draw_chart(canvas: &HtmlCanvasElement, spec: &ChartSpec) -> Result<(), String> {
+    let ratio = fit_backing_store(canvas, 360.0);
     let backend =
         CanvasBackend::with_canvas_object(canvas.clone()).ok_or("the canvas has no 2d context")?;
     let area = backend.into_drawing_area();
@@ -179,28 +186,7 @@ pub fn publish_map_ms(ms: f64) {
 /// [`draw_chart`]) and returns where each site landed, in CSS pixels from the canvas's top
 /// left corner, for the focusable site buttons over it.
 pub fn draw_map(canvas: &HtmlCanvasElement, spec: &MapSpec) -> Result<Vec<(f64, f64)>, String> {
-    let ratio = window()
-        .map(|w| w.device_pixel_ratio())
-        .unwrap_or(1.0)
-        .max(1.0);
-    let css_width = match canvas.client_width() {
-        w if w > 0 => f64::from(w),
-        _ => 640.0,
-    };
-    let css_height = match canvas.client_height() {
-        h if h > 0 => f64::from(h),
-        _ => 480.0,
-    };
-    let (width, height) = (
-        (css_width * ratio).round() as u32,
-        (css_height * ratio).round() as u32,
-    );
-    if canvas.width() != width {
-        canvas.set_width(width);
-    }
-    if canvas.height() != height {
-        canvas.set_height(height);
-    }
+    let ratio = fit_backing_store(canvas, 480.0);
     let layout = paint_map(canvas, spec, ratio)?;
     Ok(spec
         .sites

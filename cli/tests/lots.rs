@@ -415,7 +415,11 @@ fn per_wafer_uniformity_and_centre_to_edge_in_json_and_table() {
     let lots: Value = serde_json::from_str(&run.stdout).unwrap();
     let entry = lot(&lots, "C2-4429");
     // The demo file states its outline (`# diameter: 150 mm`, `# notch: 270`, demo README).
-    assert_eq!(entry["outline"]["diameter_mm"], 150.0, "{}", entry["outline"]);
+    assert_eq!(
+        entry["outline"]["diameter_mm"], 150.0,
+        "{}",
+        entry["outline"]
+    );
     assert_eq!(entry["outline"]["orientation"]["mark"], "notch");
     assert_eq!(entry["outline"]["orientation"]["angle_deg"], 270.0);
     for wafer in entry["wafer_results"].as_array().unwrap() {
