@@ -242,7 +242,7 @@ async fn map_times(client: &fantoccini::Client) -> (f64, f64) {
         "document.querySelector('[data-testid=\"lots-map\"]').scrollIntoView({block: 'center'});",
     )
     .await;
-    let wafers = series(21, |i| format!("MX-1|{:03}", 1 + i));
+    let wafers = series(21, |i| format!("MX-1|{:03}", 2 + i));
     let mut map_best = f64::INFINITY;
     for _round in 0..3 {
         let times = change_times(client, "lots-map-wafer", &wafers).await;

@@ -261,6 +261,29 @@ async fn map_choices_bad_diameter_and_exports() {
             tokio::time::sleep(Duration::from_millis(100)).await;
         }
         screenshot(&client, "map-choices-1920").await;
+
+        // The hot-spot lot: on wafer 01 the outer-ring site at 135 degrees (site 35: 26 + 9 of
+        // 24) reads above 12 ohm cm (demo-wafers/README.md, the invented scenario).
+        choose(&client, "lots-map-quantity", "resistivity").await;
+        retype(&client, "lots-map-diameter", "150").await;
+        choose(&client, "lots-map-wafer", "C2-4432|01").await;
+        text_until(&client, "lots-map-figures", |t| t.contains("1 of 49 sites outside")).await;
+        let rows = by_testid(&client, "lots-map-table").await.find_all(Locator::Css("tbody tr")).await.expect("rows");
+        let mut above = Vec::new();
+        for r in rows {
+            let text = r.prop("textContent").await.ok().flatten().unwrap_or_default();
+            if text.ends_with("above max") {
+                above.push(text);
+            }
+        }
+        assert_eq!(above.len(), 1, "{above:?}");
+        assert!(above[0].starts_with("35"), "{above:?}");
+        run_script(
+            &client,
+            "document.querySelector('[data-testid=\"lots-map\"]').scrollIntoView({block: 'center'});",
+        )
+        .await;
+        screenshot(&client, "map-hot-spot-1920").await;
     })
     .await;
 }

@@ -304,21 +304,28 @@ pub fn radial_chart(
     wafer: &str,
     quantity: MapQuantity,
 ) -> Option<ChartSpec> {
-    let mut wafers: Vec<&str> = Vec::new();
-    for s in sites.iter().filter(|s| *s.lot == *lot && s.x_mm.is_some()) {
-        if !wafers.contains(&&*s.wafer) {
-            wafers.push(&s.wafer);
-        }
+    // One pass over the sites: each wafer's positioned values, wafers in file order (a lot's
+    // sites come wafer by wafer, so the last group is nearly always the one to extend).
+    let mut groups: Vec<(&str, Vec<(f64, f64, f64)>)> = Vec::new();
+    for s in sites.iter().filter(|s| *s.lot == *lot) {
+        let (Some(x), Some(y), Some(v)) = (s.x_mm, s.y_mm, quantity.of(s)) else {
+            continue;
+        };
+        let at = match groups.iter().rposition(|g| g.0 == &*s.wafer) {
+            Some(i) => i,
+            None => {
+                groups.push((&s.wafer, Vec::new()));
+                groups.len() - 1
+            }
+        };
+        groups[at].1.push((x, y, v));
     }
     let mut series = Vec::new();
     let mut marks = Vec::new();
     let mut chosen_profile = None;
-    for w in &wafers {
-        let points: Vec<(f64, f64, f64)> = wafer_sites(sites, lot, w, quantity)
-            .map(|(_, x, y, v)| (x, y, v))
-            .collect();
+    for (w, points) in groups.iter().map(|(w, p)| (*w, p.as_slice())) {
         let mut rings: Vec<(i64, f64, usize)> = Vec::new();
-        for &(x, y, v) in &points {
+        for &(x, y, v) in points {
             let key = ring_key(x.hypot(y));
             match rings.iter_mut().find(|r| r.0 == key) {
                 Some(r) => {
@@ -333,9 +340,9 @@ pub fn radial_chart(
             .iter()
             .map(|&(k, sum, n)| (k as f64 / 2.0, sum / n as f64))
             .collect();
-        if *w == wafer {
+        if w == wafer {
             chosen_profile = radial_profile(&points);
-            for &(x, y, v) in &points {
+            for &(x, y, v) in points {
                 marks.push(Mark::Symbol {
                     x: x.hypot(y),
                     y: v,
