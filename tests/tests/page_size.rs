@@ -11,9 +11,11 @@ use std::io::Write as _;
 /// never raise it without saying why in the commit. Raised from 440 KiB: the van der Pauw &
 /// Hall view, the probe geometry and the Holm tables added 34,238 bytes (473,901). Raised from
 /// 470 KiB: the lot chart at scale, the sortable wafer table and the two patterned demo lots
-/// added 14,831 bytes (488,732). Raised from 478 KiB: the wafer map (Delaunay surface, colour
-/// scale, outline, focusable sites, radial profile, report maps) added 43,497 bytes (532,229).
-const WASM_GZIP_BUDGET_BYTES: usize = 536_000;
+/// added 14,831 bytes (488,732). Lowered from 478 KiB (489,472) to the measured size plus 2 %:
+/// the saved state read through one JSON deserializer per input type (about 479,600). Raised
+/// from 489,200: the wafer map (Delaunay surface, colour scale, outline, focusable sites, radial
+/// profile, report maps) added about 43,500 bytes (523,713).
+const WASM_GZIP_BUDGET_BYTES: usize = 534_200;
 
 fn gzip9_len(bytes: &[u8]) -> usize {
     let mut gz = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());

@@ -8,6 +8,7 @@ use crate::shell::{self, root};
 use crate::{dist, tools};
 use std::io::{BufRead, BufReader};
 use std::process::{Command, Stdio};
+use std::time::{Duration, Instant};
 
 #[derive(Default)]
 struct Tally {
@@ -87,74 +88,164 @@ fn parse_result_line(line: &str) -> Option<(u64, u64, u64)> {
     Some((count("passed"), count("failed"), count("ignored")))
 }
 
+/// How long each step took, printed as a table at the end (steps that ran alongside each
+/// other say so).
+#[derive(Default)]
+struct Clock {
+    steps: Vec<(String, Duration)>,
+}
+
+impl Clock {
+    fn time<T>(&mut self, name: &str, step: impl FnOnce() -> T) -> T {
+        let started = Instant::now();
+        let result = step();
+        self.record(name, started.elapsed());
+        result
+    }
+
+    fn record(&mut self, name: &str, took: Duration) {
+        eprintln!("xtask: step '{name}' took {:.0} s", took.as_secs_f64());
+        self.steps.push((name.to_string(), took));
+    }
+
+    fn print(&self, total: Duration) {
+        let width = self.steps.iter().map(|(n, _)| n.len()).max().unwrap_or(0);
+        eprintln!("xtask: step times");
+        for (name, took) in &self.steps {
+            eprintln!("  {name:<width$} {:>6.0} s", took.as_secs_f64());
+        }
+        eprintln!(
+            "  {:<width$} {:>6.0} s",
+            "total (wall)",
+            total.as_secs_f64()
+        );
+    }
+}
+
 pub fn run(args: &[String]) -> Result<(), String> {
     if !args.is_empty() {
         return Err(format!("test takes no arguments, got: {}", args.join(" ")));
     }
+    let started = Instant::now();
     warn_when_disk_is_short();
     let mut tally = Tally::default();
-    tally.gate("install build tools", tools::ensure_build_tools());
-    tally.gate("install chromium", tools::ensure_chromium());
-    tally.gate(
-        "rustfmt",
-        shell::run(shell::cargo().args(["fmt", "--all", "--check"])),
-    );
-    tally.gate(
-        "clippy native",
-        shell::run(shell::cargo().args([
-            "clippy",
-            "--workspace",
-            "--all-targets",
-            "--all-features",
-            "--",
-            "-D",
-            "warnings",
-        ])),
-    );
-    tally.gate(
-        "clippy wasm32",
-        shell::run(shell::cargo().args([
-            "clippy",
-            "-p",
-            "bandgauge-app",
-            "--target",
-            "wasm32-unknown-unknown",
-            "--",
-            "-D",
-            "warnings",
-        ])),
-    );
-    tally.suite(
-        "cargo test --workspace",
-        shell::cargo().args(["test", "--workspace"]),
-    );
-    let dist = dist::build_release();
+    let mut clock = Clock::default();
+    // Chromium comes from apt (network and disk, hardly any CPU): installed alongside the
+    // builds, needed only by the test run at the end.
+    let chromium = std::thread::spawn(|| {
+        let t = Instant::now();
+        (tools::ensure_chromium(), t.elapsed())
+    });
+    let tools_ok = clock.time("install build tools", || {
+        tally.gate("install build tools", tools::ensure_build_tools())
+    });
+    clock.time("rustfmt", || {
+        tally.gate(
+            "rustfmt",
+            shell::run(shell::cargo().args(["fmt", "--all", "--check"])),
+        )
+    });
+    // The release page builds alongside clippy and the test build: its own target folders
+    // (wasm32 release, host release for the macros), so neither waits for the other's lock,
+    // and its long single-threaded link (LTO, one codegen unit) and wasm-opt fill the cores
+    // the debug builds leave idle.
+    let release = tools_ok.then(|| {
+        std::thread::spawn(|| {
+            let t = Instant::now();
+            (dist::build_release(), t.elapsed())
+        })
+    });
+    clock.time("clippy native", || {
+        tally.gate(
+            "clippy native",
+            shell::run(shell::cargo().args([
+                "clippy",
+                "--workspace",
+                "--all-targets",
+                "--all-features",
+                "--",
+                "-D",
+                "warnings",
+            ])),
+        )
+    });
+    clock.time("clippy wasm32", || {
+        tally.gate(
+            "clippy wasm32",
+            shell::run(shell::cargo().args([
+                "clippy",
+                "-p",
+                "bandgauge-app",
+                "--target",
+                "wasm32-unknown-unknown",
+                "--",
+                "-D",
+                "warnings",
+            ])),
+        )
+    });
+    // Every test binary, the browser ones included, in one build with one feature set: the
+    // run below then compiles nothing (no second build of the dependencies for the feature).
+    let test_build = clock.time("build test binaries", || {
+        tally.gate(
+            "build test binaries",
+            shell::run(shell::cargo().args(TEST_ALL).arg("--no-run")),
+        )
+    });
+    let waited = Instant::now();
+    let dist = match release.map(|h| h.join()) {
+        Some(Ok((dist, took))) => {
+            clock.record(
+                "wasm release build (alongside clippy and the test build)",
+                took,
+            );
+            dist
+        }
+        Some(Err(_)) => Err("the release build thread panicked".to_string()),
+        None => Err("not run: the build tools are missing".to_string()),
+    };
+    clock.record("waiting for the release build", waited.elapsed());
     let built = tally.gate(
         "wasm release build",
         dist.as_ref().map(|_| ()).map_err(Clone::clone),
     );
-    if let (true, Ok(dist)) = (built, dist) {
-        tally.suite(
-            "browser tests",
-            shell::cargo()
-                .args(["test", "-p", "bandgauge-tests", "--features", "browser"])
-                .args(
-                    browser_test_targets()
-                        .iter()
-                        .flat_map(|t| ["--test", t.as_str()]),
+    let (chromium, took) = chromium
+        .join()
+        .unwrap_or_else(|_| (Err("the install thread panicked".into()), Duration::ZERO));
+    clock.record("install chromium (alongside)", took);
+    tally.gate("install chromium", chromium);
+    match (built, dist) {
+        (true, Ok(dist)) if test_build => clock.time("unit, reference and browser tests", || {
+            tally.suite(
+                "cargo test --workspace --all-features",
+                shell::cargo()
+                    .args(TEST_ALL)
+                    .arg("--no-fail-fast")
+                    .env("BANDGAUGE_DIST", dist)
+                    .env("BANDGAUGE_ROOT", root()),
+            )
+        }),
+        (built, _) => {
+            // Without the page (or with a test build that failed) the unit and reference
+            // tests still run, and the browser tests count as failed.
+            clock.time("unit and reference tests", || {
+                tally.suite(
+                    "cargo test --workspace",
+                    shell::cargo().args(["test", "--workspace", "--no-fail-fast"]),
                 )
-                .env("BANDGAUGE_DIST", dist)
-                .env("BANDGAUGE_ROOT", root()),
-        );
-    } else {
-        tally.failed += 1;
-        tally
-            .failures
-            .push("browser tests: not run, the wasm build failed".into());
+            });
+            if !built {
+                tally.failed += 1;
+                tally
+                    .failures
+                    .push("browser tests: not run, the wasm build failed".into());
+            }
+        }
     }
     for f in &tally.failures {
         eprintln!("xtask: failure: {f}");
     }
+    clock.print(started.elapsed());
     let mut summary = format!("{} passed, {} failed", tally.passed, tally.failed);
     if tally.skipped > 0 {
         summary.push_str(&format!(", {} skipped", tally.skipped));
@@ -166,6 +257,10 @@ pub fn run(args: &[String]) -> Result<(), String> {
         Ok(())
     }
 }
+
+/// `cargo test` over every package and feature: the unit, reference and hygiene tests and,
+/// with the `browser` feature of bandgauge-tests, every browser test file it declares.
+const TEST_ALL: [&str; 3] = ["test", "--workspace", "--all-features"];
 
 /// Disk a clean run takes: target/ measured 2.5 GB after a clean-clone run, plus the
 /// temporary lot files and browser profiles of the browser tests.
@@ -226,48 +321,5 @@ mod tests {
         let bad = "test result: FAILED. 3 passed; 2 failed; 0 ignored; 0 measured; 0 filtered out";
         assert_eq!(parse_result_line(bad), Some((3, 2, 0)));
         assert_eq!(parse_result_line("running 3 tests"), None);
-    }
-}
-
-/// The test targets of tests/Cargo.toml that need the `browser` feature: every
-/// `[[test]]` table whose `required-features` names it, so a new browser test file
-/// declared there is run without editing this list.
-fn browser_test_targets() -> Vec<String> {
-    let manifest = std::fs::read_to_string(root().join("tests/Cargo.toml")).unwrap_or_default();
-    manifest
-        .split("[[")
-        .filter(|table| table.starts_with("test]]"))
-        .filter(|table| {
-            table
-                .lines()
-                .any(|l| l.starts_with("required-features") && l.contains("\"browser\""))
-        })
-        .filter_map(|table| {
-            table.lines().find_map(|l| {
-                let value = l.strip_prefix("name")?.trim_start().strip_prefix('=')?;
-                Some(value.trim().trim_matches('"').to_string())
-            })
-        })
-        .collect()
-}
-
-#[cfg(test)]
-mod browser_targets_tests {
-    use super::browser_test_targets;
-
-    #[test]
-    fn every_declared_browser_test_is_run() {
-        let targets = browser_test_targets();
-        // The browser test files of tests/tests/ (common practice, no source: the list is the repo's own).
-        for name in ["browser", "offline", "lots_browser", "shell_browser"] {
-            assert!(
-                targets.iter().any(|t| t == name),
-                "{name} missing from {targets:?}"
-            );
-        }
-        assert!(
-            !targets.iter().any(|t| t == "hygiene"),
-            "hygiene needs no browser"
-        );
     }
 }

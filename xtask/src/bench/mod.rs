@@ -1,7 +1,7 @@
 //! `cargo xtask bench`: criterion benchmarks of the core, the same neutrality and van der
-//! Pauw problems scripted in Python with SciPy for speed ratios, the release wasm size, and the
-//! in-browser timings (headless Chromium: input to charts redrawn, a 100,000-row lot file
-//! read), and the CLI streaming 100,000 and 10,000,000 lot rows with its peak memory, printed
+//! Pauw problems scripted in Python with SciPy for speed ratios, the release wasm size (raw,
+//! gzip -9 and brotli quality 11), the in-browser timings (headless Chromium: input to charts
+//! redrawn, a 100,000-row lot file read), and the CLI streaming 100,000 and 10,000,000 lot rows with its peak memory, printed
 //! as one table.
 //!
 //! Machines here are noisy: every figure is a median, and comparisons are ratios
@@ -107,6 +107,13 @@ fn browser_rows(table: &mut Vec<(String, String)>) -> Result<(), String> {
             "release wasm, gzip -9".into(),
             format!("{:.0} KB", gz as f64 / 1024.0),
         ));
+        table.push((
+            "release wasm, brotli quality 11".into(),
+            match brotli_len(&wasm) {
+                Ok(br) => format!("{:.0} KB", br as f64 / 1024.0),
+                Err(e) => format!("not measured: {e}"),
+            },
+        ));
     }
     let out = shell::capture(
         shell::cargo()
@@ -163,6 +170,26 @@ fn gzip_len(bytes: &[u8]) -> Result<usize, String> {
     gz.finish()
         .map(|v| v.len())
         .map_err(|e| format!("gzip: {e}"))
+}
+
+/// The brotli size (quality 11, as servers precompress) of a file, from Python's `brotli`
+/// package (installed from PyPI when missing): xtask itself stays free of a brotli encoder,
+/// which only this table needs.
+fn brotli_len(file: &std::path::Path) -> Result<usize, String> {
+    const MEASURE: &str = "import brotli, sys; \
+        print(len(brotli.compress(open(sys.argv[1], 'rb').read(), quality=11)))";
+    let have = Command::new("python3")
+        .args(["-c", "import brotli"])
+        .status();
+    if !have.is_ok_and(|s| s.success()) {
+        eprintln!("xtask: installing brotli from PyPI for the page size row (a few seconds)");
+        shell::run(Command::new("python3").args(["-m", "pip", "install", "--quiet", "brotli"]))?;
+    }
+    let out = shell::capture(Command::new("python3").args(["-c", MEASURE]).arg(file))?;
+    let text = String::from_utf8_lossy(&out.stdout);
+    text.trim()
+        .parse()
+        .map_err(|_| format!("python3 brotli printed {text:?}"))
 }
 
 /// Runs the Python reference script (installing SciPy and mpmath from PyPI when missing)
