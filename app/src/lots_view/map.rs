@@ -290,6 +290,9 @@ pub fn figure_lines(map: &MapSpec) -> Vec<String> {
     lines
 }
 
+/// (x mm, y mm, value) of each positioned site of one wafer.
+type Points = Vec<(f64, f64, f64)>;
+
 /// Rounds a radius to a ring: sites within 0.5 mm of each other's radius share a ring.
 fn ring_key(r: f64) -> i64 {
     (r * 2.0).round() as i64
@@ -306,7 +309,7 @@ pub fn radial_chart(
 ) -> Option<ChartSpec> {
     // One pass over the sites: each wafer's positioned values, wafers in file order (a lot's
     // sites come wafer by wafer, so the last group is nearly always the one to extend).
-    let mut groups: Vec<(&str, Vec<(f64, f64, f64)>)> = Vec::new();
+    let mut groups: Vec<(&str, Points)> = Vec::new();
     for s in sites.iter().filter(|s| *s.lot == *lot) {
         let (Some(x), Some(y), Some(v)) = (s.x_mm, s.y_mm, quantity.of(s)) else {
             continue;
@@ -341,7 +344,7 @@ pub fn radial_chart(
             .map(|&(k, sum, n)| (k as f64 / 2.0, sum / n as f64))
             .collect();
         if w == wafer {
-            chosen_profile = radial_profile(&points);
+            chosen_profile = radial_profile(points);
             for &(x, y, v) in points {
                 marks.push(Mark::Symbol {
                     x: x.hypot(y),
