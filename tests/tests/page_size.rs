@@ -12,8 +12,8 @@ use std::io::Write as _;
 /// Hall view, the probe geometry and the Holm tables added 34,238 bytes (473,901). Raised from
 /// 470 KiB: the lot chart at scale, the sortable wafer table and the two patterned demo lots
 /// added 14,831 bytes (488,732). Lowered from 478 KiB (489,472) to the measured size plus 2 %:
-/// the saved state read through one JSON deserializer per input type (about 479,600).
-const WASM_GZIP_BUDGET_BYTES: usize = 489_200;
+/// the saved state read through one JSON deserializer per input type (480,015).
+const WASM_GZIP_BUDGET_BYTES: usize = 489_615;
 
 fn gzip9_len(bytes: &[u8]) -> usize {
     let mut gz = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());
