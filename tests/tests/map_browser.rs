@@ -216,6 +216,22 @@ async fn map_choices_bad_diameter_and_exports() {
         assert!(csv.starts_with("site,x_mm,y_mm,resistivity [ohm cm],outside_window"));
         assert!(csv.contains(",below min"));
 
+        // Each figure and the surface's scheme are defined under "How the figures are defined".
+        let definitions = client
+            .find_all(Locator::Css("[data-testid=\"lots-map-definition\"]"))
+            .await
+            .expect("definitions");
+        let mut texts = Vec::new();
+        for d in definitions {
+            texts.push(d.prop("textContent").await.ok().flatten().unwrap_or_default());
+        }
+        assert_eq!(texts.len(), 6, "{texts:?}");
+        for term in ["std/mean", "(max-min)/(max+min)", "(max-min)/mean", "centre to edge"] {
+            assert!(texts.iter().any(|t| t.starts_with(term)), "{term} in {texts:?}");
+        }
+        assert!(texts.iter().any(|t| t.contains("Delaunay")), "{texts:?}");
+        assert!(texts.iter().any(|t| t.contains("Oklab")), "{texts:?}");
+
         // Dopant density: the figures follow, in cm^-3.
         choose(&client, "lots-map-quantity", "density").await;
         text_until(&client, "lots-map-figures", |t| t.contains("cm^-3")).await;
