@@ -98,12 +98,6 @@ impl MapSpec {
         (lo, hi)
     }
 
-    /// Position of `value` on the colour scale, 0..1 (clamped).
-    pub fn scale_position(&self, value: f64) -> f64 {
-        let (lo, hi) = self.range();
-        ((value - lo) / (hi - lo)).clamp(0.0, 1.0)
-    }
-
     /// The fitted surface, when the sites allow one (3 or more, not all on a line).
     pub fn surface(&self) -> Option<SurfaceFit> {
         let points: Vec<(f64, f64, f64)> = self
@@ -186,16 +180,35 @@ impl MapLayout {
 /// Whether the wafer point (x, y) mm lies on the wafer: inside the circle and, for a flat, on
 /// the centre's side of it.
 pub fn on_wafer(spec: &MapSpec, x: f64, y: f64) -> bool {
-    let r = spec.diameter_mm / 2.0;
-    if x * x + y * y > r * r {
-        return false;
+    WaferShape::of(spec).contains(x, y)
+}
+
+/// The wafer's shape, worked out once for the many pixels it is asked about.
+struct WaferShape {
+    /// Radius squared, mm^2.
+    r2: f64,
+    /// For a flat: the unit vector towards it and the centre's distance to its chord.
+    flat: Option<(f64, f64, f64)>,
+}
+
+impl WaferShape {
+    fn of(spec: &MapSpec) -> WaferShape {
+        let r = spec.diameter_mm / 2.0;
+        let flat = spec
+            .orientation
+            .filter(|o| o.mark == OrientationMark::Flat)
+            .map(|o| {
+                let (dx, dy) = unit(o.angle_deg);
+                (dx, dy, flat_distance(r))
+            });
+        WaferShape { r2: r * r, flat }
     }
-    match spec.orientation {
-        Some(o) if o.mark == OrientationMark::Flat => {
-            let (dx, dy) = unit(o.angle_deg);
-            x * dx + y * dy <= flat_distance(r)
-        }
-        _ => true,
+
+    fn contains(&self, x: f64, y: f64) -> bool {
+        x * x + y * y <= self.r2
+            && self
+                .flat
+                .is_none_or(|(dx, dy, distance)| x * dx + y * dy <= distance)
     }
 }
 
@@ -233,12 +246,13 @@ pub fn surface_pixels(spec: &MapSpec, layout: &MapLayout, ramp: &Ramp) -> Vec<u8
         .unwrap_or_else(|| vec![f64::NAN; n * n]);
     let (lo, hi) = spec.range();
     let span = hi - lo;
+    let shape = WaferShape::of(spec);
     for j in 0..n {
         let y = grid.y0 + j as f64 * step;
         let row = n - 1 - j;
         for i in 0..n {
             let x = grid.x0 + i as f64 * step;
-            if !on_wafer(spec, x, y) {
+            if !shape.contains(x, y) {
                 continue;
             }
             let v = values[j * n + i];
@@ -269,7 +283,7 @@ pub fn draw<DB: DrawingBackend>(
     let d = |css: f64| (css * px).round() as i32;
     let font = |css: f64| ("sans-serif", css * px);
     let ink = RGBColor(0x1a, 0x1a, 0x1a);
-    let (width, height) = area.dim_in_pixel();
+    let (_, height) = area.dim_in_pixel();
 
     area.draw_text(
         &spec.title,
@@ -377,7 +391,6 @@ pub fn draw<DB: DrawingBackend>(
     area.draw_text(key, &foot, (d(12.0), y_foot)).map_err(err)?;
     area.draw_text(&spec.caption, &foot, (d(12.0), y_foot + d(17.0)))
         .map_err(err)?;
-    let _ = width;
     Ok(())
 }
 

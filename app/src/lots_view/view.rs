@@ -219,7 +219,7 @@ pub fn LotsView(
         }
     });
     let diameter_setting = Memo::new(move |_| map_diameter.with(|t| parse_diameter(t)));
-    // The map, or why it cannot be drawn; timed for the benchmark (`data-map-compute-ms`).
+    // The map, or why it cannot be drawn (no such quantity, sites beyond any standard wafer).
     let map_result = Memo::new(move |_| {
         finished.track();
         let window = spec.get().ok().flatten();
