@@ -202,28 +202,27 @@ pub fn charts(record: &SignoffRecord) -> Vec<ChartSpec> {
         }
         // The Hall view draws no chart.
         RecordedView::HallAnalysis => Vec::new(),
-        RecordedView::LotComparison => {
-            let Some((work, inputs)) = lots_of(record) else {
-                return Vec::new();
-            };
-            let spec =
-                lots_view::spec_from_inputs(&inputs.quantity, &inputs.spec_min, &inputs.spec_max)
-                    .ok()
-                    .flatten();
-            let report = work.report(spec.as_ref());
-            lots_view::distribution_chart(&report, spec.as_ref(), None)
-                .into_iter()
-                .collect()
-        }
+        RecordedView::LotComparison => lot_pictures(record).0,
     }
 }
 
-/// The wafer maps of a lot record: per lot the wafer that decides its verdict (without a spec
-/// window, its first wafer), in the quantity of the spec window (resistivity without one),
-/// each with its uniformity figures as lines of text.
-pub fn maps(record: &SignoffRecord) -> Vec<(MapSpec, Vec<String>)> {
+/// A wafer map with its uniformity figures as lines of text.
+pub type MapFigure = (MapSpec, Vec<String>);
+
+/// The charts and the wafer maps of a record; a lot record's files are read once for both.
+pub fn pictures(record: &SignoffRecord) -> (Vec<ChartSpec>, Vec<MapFigure>) {
+    match record.view {
+        RecordedView::LotComparison => lot_pictures(record),
+        _ => (charts(record), Vec::new()),
+    }
+}
+
+/// A lot record's distribution chart and its wafer maps: per lot the wafer that decides its
+/// verdict (without a spec window, its first wafer), in the quantity of the spec window
+/// (resistivity without one), each with its uniformity figures.
+fn lot_pictures(record: &SignoffRecord) -> (Vec<ChartSpec>, Vec<MapFigure>) {
     let Some((work, inputs)) = lots_of(record) else {
-        return Vec::new();
+        return (Vec::new(), Vec::new());
     };
     let spec = lots_view::spec_from_inputs(&inputs.quantity, &inputs.spec_min, &inputs.spec_max)
         .ok()
@@ -233,13 +232,14 @@ pub fn maps(record: &SignoffRecord) -> Vec<(MapSpec, Vec<String>)> {
         _ => MapQuantity::Resistivity,
     };
     let report = work.report(spec.as_ref());
+    let chart = lots_view::distribution_chart(&report, spec.as_ref(), None);
     // Each map says why it is in the report.
     let why = if spec.is_some() {
         "the wafer that decides the lot's verdict"
     } else {
         "the lot's first wafer"
     };
-    report_wafers(&report)
+    let maps = report_wafers(&report)
         .into_iter()
         .filter_map(|(lot, wafer)| {
             let mut map =
@@ -250,7 +250,8 @@ pub fn maps(record: &SignoffRecord) -> Vec<(MapSpec, Vec<String>)> {
             map.title = format!("{}: {why}", map.title);
             Some((map, lines))
         })
-        .collect()
+        .collect();
+    (chart.into_iter().collect(), maps)
 }
 
 /// Most wafer maps one report prints.
@@ -382,7 +383,7 @@ fn chart_figure(spec: &ChartSpec) -> impl IntoView + use<> {
 const MAP_CSS: (u32, u32) = (680, 470);
 
 /// One wafer map as an image with its figures under it, or why it could not be drawn.
-fn map_figure((spec, lines): &(MapSpec, Vec<String>)) -> impl IntoView + use<> {
+fn map_figure((spec, lines): &MapFigure) -> impl IntoView + use<> {
     let title = spec.title.clone();
     let lines = lines.clone();
     match browser::map_image(spec, MAP_CSS.0, MAP_CSS.1, CHART_SCALE) {
@@ -471,8 +472,7 @@ fn ReportPage(record: SignoffRecord, on_close: Callback<()>) -> impl IntoView {
         }
     });
     let inputs = record::input_lines(&record);
-    let figures = charts(&record);
-    let wafer_maps = maps(&record);
+    let (figures, wafer_maps) = pictures(&record);
     let models: Vec<(String, String, String)> = record
         .results
         .models
@@ -698,7 +698,7 @@ mod tests {
             (View::Carriers, 1),
             (View::Sweep, 3),
             (View::Resistivity, 1),
-            // The distribution chart (the wafer maps are apart, `maps`).
+            // The distribution chart (the wafer maps are apart, `pictures`).
             (View::Lots, 1),
         ] {
             let snapshot = demo_snapshot(true);
@@ -720,7 +720,8 @@ mod tests {
             ..Workbench::default()
         };
         let record = record_of_page(workbench, Some(&snapshot), CREATED).expect("record");
-        let maps = maps(&record);
+        let (charts, maps) = pictures(&record);
+        assert_eq!(charts.len(), 1);
         // A wafer map for each of the six demo lots, each with its figures.
         assert_eq!(maps.len(), 6);
         for (map, lines) in &maps {
