@@ -240,7 +240,7 @@ async fn map_choices_bad_diameter_and_exports() {
         retype(&client, "lots-map-diameter", "abc").await;
         let e = text_until(&client, "lots-map-diameter-error", |t| !t.is_empty()).await;
         assert!(
-            e.contains("Wafer diameter") && e.contains("25 to 450"),
+            e.contains("Wafer diameter") && e.contains("e.g. 150 mm"),
             "{e}"
         );
         canvas_drawn(&client, "lots-map", MIN_INKED_PIXELS).await;

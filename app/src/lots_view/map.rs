@@ -5,7 +5,7 @@
 use bandgauge_core::lots::map::{
     self, MAP_DEFINITIONS, RadialProfile, Uniformity, infer_diameter_mm, radial_profile, uniformity,
 };
-use bandgauge_core::lots::{SpecQuantity, SpecWindow};
+use bandgauge_core::lots::{SpecQuantity, SpecWindow, parse_diameter_mm};
 use leptos::prelude::*;
 
 use super::charts::site_side;
@@ -115,27 +115,16 @@ fn wafer_sites<'a>(
         .filter_map(move |s| Some((s, s.x_mm?, s.y_mm?, quantity.of(s)?)))
 }
 
-/// Largest wafer diameter the setting takes, mm (SEMI M1 names wafers up to 450 mm).
-const MAX_DIAMETER_MM: f64 = 450.0;
-/// Smallest, mm.
-const MIN_DIAMETER_MM: f64 = 25.0;
-
-/// Reads the diameter field: empty for none (the file's or the inferred one), else mm from
-/// 25 to 450 (a trailing "mm" is allowed).
+/// Reads the diameter field: empty for none (the file's or the inferred one), else as the lot
+/// files' `# diameter:` setting (`lots::parse_diameter_mm`: bare numbers in mm).
 pub fn parse_diameter(text: &str) -> Result<Option<f64>, String> {
     let t = text.trim();
-    let t = t.strip_suffix("mm").unwrap_or(t).trim();
     if t.is_empty() {
         return Ok(None);
     }
-    match t.replace(',', ".").parse::<f64>() {
-        Ok(d) if (MIN_DIAMETER_MM..=MAX_DIAMETER_MM).contains(&d) => Ok(Some(d)),
-        _ => Err(format!(
-            "Wafer diameter: '{}' is not allowed; give mm from {MIN_DIAMETER_MM} to \
-             {MAX_DIAMETER_MM}, or leave it empty for the file's or the inferred diameter",
-            text.trim()
-        )),
-    }
+    parse_diameter_mm(t).map(Some).map_err(|e| {
+        format!("Wafer diameter: {e}; or leave it empty for the file's or the inferred diameter")
+    })
 }
 
 /// Where the map's diameter comes from.
@@ -655,11 +644,11 @@ mod tests {
         assert_eq!(MapQuantity::from_id("nonsense"), MapQuantity::Resistivity);
         assert_eq!(parse_diameter(" "), Ok(None));
         assert_eq!(parse_diameter("200 mm"), Ok(Some(200.0)));
-        assert_eq!(parse_diameter("150,0"), Ok(Some(150.0)));
-        for bad in ["0", "-150", "abc", "1000", "NaN"] {
+        assert_eq!(parse_diameter("20 cm"), Ok(Some(200.0)));
+        for bad in ["0", "-150", "abc", "1200", "NaN", "6 in", "150,0"] {
             let e = parse_diameter(bad).unwrap_err();
             assert!(
-                e.starts_with("Wafer diameter:") && e.contains("25 to 450"),
+                e.starts_with("Wafer diameter:") && e.contains("leave it empty"),
                 "{e}"
             );
         }

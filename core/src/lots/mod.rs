@@ -49,7 +49,7 @@ pub use book::{
 pub use columns::Column;
 pub use reader::{
     LotFileError, LotReader, MAX_LINE_BYTES, Measurement, ReadOptions, RowCounts, RowOutcome,
-    RowRejection, Site, SiteSink, parse_dopant,
+    RowRejection, Site, SiteSink, parse_diameter_mm, parse_dopant,
 };
 pub use stats::Summary;
 pub use verdict::{Judgement, SpecError, SpecQuantity, SpecWindow, Verdict};

@@ -666,8 +666,12 @@ impl LotReader {
     }
 }
 
-/// A diameter setting in mm: a length, bare numbers in mm.
-fn parse_diameter_mm(value: &str) -> Result<f64, String> {
+/// A wafer diameter in mm, as the `# diameter:` setting and the app's diameter field take it: a
+/// length, bare numbers in mm, more than 0 and at most 1000 mm.
+///
+/// # Errors
+/// A message naming the text and what is allowed.
+pub fn parse_diameter_mm(value: &str) -> Result<f64, String> {
     if value.is_empty() {
         return Err("no value after the name; give the wafer diameter, e.g. 150 mm".to_owned());
     }
