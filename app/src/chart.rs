@@ -6,6 +6,7 @@
 //! axis (minority carriers at low temperature) stays in our hands.
 
 use crate::format;
+use bandgauge_core::order;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::Color as _;
@@ -441,7 +442,7 @@ pub fn draw<DB: DrawingBackend>(
 ) -> Result<(), String> {
     let err = |e: DrawingAreaErrorKind<DB::ErrorType>| format!("chart '{}': {e}", spec.title);
     let size = |css: f64| (css * px).round() as u32;
-    let font = |css: f64| ("sans-serif", css * px);
+    let font = |css: f64| (FontFamily::SansSerif, css * px);
     area.fill(&WHITE).map_err(err)?;
 
     let xs = spec
@@ -789,8 +790,7 @@ const TITLE_ROW_PX: f64 = 22.0;
 /// Moves label tops (pixels, any order) the least needed so that any two are at least `gap`
 /// apart, keeping their order; returns them in the given order.
 fn spread_apart(tops: &[i32], gap: i32) -> Vec<i32> {
-    let mut order: Vec<usize> = (0..tops.len()).collect();
-    order.sort_by_key(|&i| tops[i]);
+    let order = order::sorted_positions(tops.len(), &|i, j| tops[i].cmp(&tops[j]));
     let mut placed = tops.to_vec();
     // Push down any label that crowds the one above it, then centre each crowded run on
     // where its labels wanted to be, so a pair of labels moves apart symmetrically.

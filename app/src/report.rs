@@ -106,7 +106,7 @@ pub fn reproduced_notice(record: &SignoffRecord, replayed: &Replayed) -> String 
         "record reproduced: {} results identical ({}, written {} by bandgauge {}); its inputs \
          are applied",
         replayed.values,
-        record.view.title().to_lowercase(),
+        record.view.title().to_ascii_lowercase(),
         record.created_utc,
         record.app_version
     )

@@ -281,7 +281,7 @@ pub fn draw<DB: DrawingBackend>(
     let err = |e: DrawingAreaErrorKind<DB::ErrorType>| format!("map '{}': {e}", spec.title);
     let px = layout.px;
     let d = |css: f64| (css * px).round() as i32;
-    let font = |css: f64| ("sans-serif", css * px);
+    let font = |css: f64| (FontFamily::SansSerif, css * px);
     let ink = RGBColor(0x1a, 0x1a, 0x1a);
     let (_, height) = area.dim_in_pixel();
 
@@ -402,7 +402,7 @@ fn draw_bar<DB: DrawingBackend>(
 ) -> Result<(), DrawingAreaErrorKind<DB::ErrorType>> {
     let px = layout.px;
     let d = |css: f64| (css * px).round() as i32;
-    let font = |css: f64| ("sans-serif", css * px);
+    let font = |css: f64| (FontFamily::SansSerif, css * px);
     let ink = RGBColor(0x1a, 0x1a, 0x1a);
     let (x0, y0) = (layout.bar_left, layout.bar_top);
     let (w, h) = (layout.bar_width as i32, layout.bar_height as i32);
@@ -457,7 +457,7 @@ fn draw_bar<DB: DrawingBackend>(
 pub fn to_csv(spec: &MapSpec) -> String {
     let mut out = format!(
         "site,x_mm,y_mm,{} [{}],outside_window\n",
-        spec.quantity.to_lowercase(),
+        spec.quantity.to_ascii_lowercase(),
         spec.unit
     );
     for s in &spec.sites {

@@ -20,6 +20,7 @@ pub mod lots;
 pub mod materials;
 pub mod mobility;
 pub mod neutrality;
+pub mod order;
 pub mod params;
 pub mod probe;
 pub mod resistivity;

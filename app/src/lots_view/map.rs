@@ -6,6 +6,7 @@ use bandgauge_core::lots::map::{
     self, MAP_DEFINITIONS, RadialProfile, Uniformity, infer_diameter_mm, radial_profile, uniformity,
 };
 use bandgauge_core::lots::{SpecQuantity, SpecWindow, parse_diameter_mm};
+use bandgauge_core::order;
 use leptos::prelude::*;
 
 use super::charts::site_side;
@@ -182,7 +183,7 @@ pub fn wafer_map(
     if map_sites.is_empty() {
         return Err(format!(
             "wafer {wafer} of lot {lot} has no {} in its rows; choose another quantity",
-            quantity.name().to_lowercase()
+            quantity.name().to_ascii_lowercase()
         ));
     }
     let outline = outline.unwrap_or_default();
@@ -209,7 +210,7 @@ pub fn wafer_map(
     Ok(Some(MapSpec {
         title: format!(
             "Wafer {wafer} of lot {lot}, {}",
-            quantity.name().to_lowercase()
+            quantity.name().to_ascii_lowercase()
         ),
         file_stem: format!("bandgauge-wafer-map-{lot}-{wafer}"),
         quantity: quantity.name().into(),
@@ -327,7 +328,7 @@ pub fn radial_chart(
                 None => rings.push((key, v, 1)),
             }
         }
-        rings.sort_by_key(|r| r.0);
+        order::sort_by(&mut rings, &|a, b| a.0.cmp(&b.0));
         let line: Vec<(f64, f64)> = rings
             .iter()
             .map(|&(k, sum, n)| (k as f64 / 2.0, sum / n as f64))
@@ -369,7 +370,7 @@ pub fn radial_chart(
         x: Axis::linear("radius, mm"),
         y: Axis::linear(&format!(
             "{}, {}",
-            quantity.name().to_lowercase(),
+            quantity.name().to_ascii_lowercase(),
             quantity.unit()
         )),
         series,

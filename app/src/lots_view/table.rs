@@ -6,6 +6,7 @@
 use std::cmp::Ordering;
 
 use bandgauge_core::lots::{LotReport, Verdict};
+use bandgauge_core::order;
 
 /// One wafer as the table shows it.
 #[derive(Clone, Debug, PartialEq)]
@@ -209,14 +210,18 @@ fn severity(verdict: Verdict) -> u8 {
 }
 
 /// Identifiers in the order people expect: numbers by value (wafer 2 before wafer 10), other
-/// text by its characters, ignoring case.
+/// text by its characters, ignoring ASCII case.
 fn identifiers(a: &str, b: &str) -> Ordering {
     match (a.trim().parse::<f64>(), b.trim().parse::<f64>()) {
         (Ok(x), Ok(y)) => x.total_cmp(&y).then_with(|| a.cmp(b)),
-        _ => a
-            .to_lowercase()
-            .cmp(&b.to_lowercase())
-            .then_with(|| a.cmp(b)),
+        _ => {
+            let folded = |s: &str| {
+                s.bytes()
+                    .map(|b| b.to_ascii_lowercase())
+                    .collect::<Vec<u8>>()
+            };
+            folded(a).cmp(&folded(b)).then_with(|| a.cmp(b))
+        }
     }
 }
 
@@ -263,7 +268,7 @@ pub fn shown_order(rows: &[WaferRow], filter: WaferFilter, sort: Option<WaferSor
         .filter(|&i| filter.keeps(&rows[i]))
         .collect();
     if let Some(WaferSort { column, descending }) = sort {
-        order.sort_by(|&i, &j| {
+        order::sort_positions(&mut order, &|i, j| {
             let (a, b) = (&rows[i], &rows[j]);
             match (column.has_value(a), column.has_value(b)) {
                 (true, false) => Ordering::Less,

@@ -1,6 +1,7 @@
 //! The record's digest: SHA-256 over the canonical JSON (compact, keys sorted by their bytes)
 //! of everything but the `digest` member.
 
+use bandgauge_core::order;
 use serde_json::Value;
 use sha2::{Digest, Sha256};
 
@@ -58,7 +59,7 @@ pub fn canonical_json(value: &Value, out: &mut String) {
 
 fn canonical_object(members: &serde_json::Map<String, Value>, out: &mut String) {
     let mut sorted: Vec<(&String, &Value)> = members.iter().collect();
-    sorted.sort_by(|a, b| a.0.cmp(b.0));
+    order::sort_by(&mut sorted, &|a, b| a.0.cmp(b.0));
     out.push('{');
     for (i, (key, value)) in sorted.into_iter().enumerate() {
         if i > 0 {

@@ -170,7 +170,7 @@ fn check_consistent(record: &SignoffRecord) -> Result<(), RecordError> {
             detail: format!(
                 "{:?} does not match the record's view; a record of a {} has view {:?}",
                 record.inputs.workbench.view,
-                record.view.title().to_lowercase(),
+                record.view.title().to_ascii_lowercase(),
                 record.view.view()
             ),
         });

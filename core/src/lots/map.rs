@@ -358,8 +358,8 @@ fn extent_of(points: &[(f64, f64, f64)]) -> f64 {
 /// Merges sites within `distance` into one at the first one's position with the mean value,
 /// keeping the order of first appearance.
 fn merge_close(points: &[(f64, f64, f64)], distance: f64) -> Vec<(f64, f64, f64)> {
-    let mut order: Vec<usize> = (0..points.len()).collect();
-    order.sort_by(|&i, &j| points[i].0.total_cmp(&points[j].0));
+    let order =
+        crate::order::sorted_positions(points.len(), &|i, j| points[i].0.total_cmp(&points[j].0));
     let mut group = vec![usize::MAX; points.len()];
     let mut groups: Vec<(usize, f64, usize)> = Vec::new(); // (first index, sum, count)
     for (k, &i) in order.iter().enumerate() {
@@ -386,7 +386,7 @@ fn merge_close(points: &[(f64, f64, f64)], distance: f64) -> Vec<(f64, f64, f64)
         }
         groups.push((first, sum, count));
     }
-    groups.sort_by_key(|&(first, _, _)| first);
+    crate::order::sort_by(&mut groups, &|a, b| a.0.cmp(&b.0));
     groups
         .into_iter()
         .map(|(first, sum, count)| {
@@ -872,7 +872,7 @@ pub fn radial_profile(points: &[(f64, f64, f64)]) -> Option<RadialProfile> {
         }
         profile.push(RadialPoint { radius_mm, value });
     }
-    profile.sort_by(|a, b| a.radius_mm.total_cmp(&b.radius_mm));
+    crate::order::sort_by(&mut profile, &|a, b| a.radius_mm.total_cmp(&b.radius_mm));
     let outer = profile.last()?.radius_mm;
     if outer <= 0.0 {
         return None;

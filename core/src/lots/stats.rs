@@ -198,7 +198,7 @@ impl MedianSketch {
         let upper = n / 2;
         if self.is_exact() {
             let mut sorted = self.exact.clone();
-            sorted.sort_by(f64::total_cmp);
+            crate::order::sort_floats(&mut sorted);
             return Some(0.5 * (sorted[lower as usize] + sorted[upper as usize]));
         }
         Some(0.5 * (self.binned_rank(lower) + self.binned_rank(upper)))
@@ -744,8 +744,7 @@ pub fn welch_t_test(a: &[f64], b: &[f64]) -> Result<WelchTest, StatsError> {
 /// None.
 pub fn holm_adjusted(p_values: &[f64]) -> Vec<f64> {
     let m = p_values.len();
-    let mut order: Vec<usize> = (0..m).collect();
-    order.sort_by(|&a, &b| {
+    let order = crate::order::sorted_positions(m, &|a, b| {
         let (pa, pb) = (p_values[a], p_values[b]);
         pa.is_nan().cmp(&pb.is_nan()).then(pa.total_cmp(&pb))
     });
@@ -818,7 +817,7 @@ pub fn kruskal_wallis(groups: &[&[f64]]) -> Result<KruskalWallis, StatsError> {
             all.push((v, group));
         }
     }
-    all.sort_by(|x, y| x.0.total_cmp(&y.0));
+    crate::order::sort_by(&mut all, &|x, y| x.0.total_cmp(&y.0));
     let n = all.len() as f64;
     let mut rank_sums = vec![0.0; groups.len()];
     let mut tie_sum = 0.0;
@@ -882,7 +881,7 @@ pub fn quartiles(values: &[f64]) -> Option<(f64, f64, f64)> {
     if sorted.is_empty() {
         return None;
     }
-    sorted.sort_by(f64::total_cmp);
+    crate::order::sort_floats(&mut sorted);
     let at = |p: f64| {
         let h = (sorted.len() - 1) as f64 * p;
         let j = h.floor() as usize;
