@@ -594,12 +594,13 @@ pub fn draw<DB: DrawingBackend>(
 
     let line_width = size(2.0).max(1);
     let mut end_labels: Vec<(&str, Color, (i32, i32))> = Vec::new();
+    let mut legend: Vec<(&str, Color, bool)> = Vec::new();
     for series in &spec.series {
         let style = ShapeStyle::from(&series.color.rgb()).stroke_width(line_width);
         let pieces = drawn_pieces(spec, series, y_range);
         let mut first = true;
         for piece in &pieces {
-            let annotation = match series.stroke {
+            match series.stroke {
                 Stroke::Solid => chart
                     .draw_series(LineSeries::new(piece.iter().copied(), style))
                     .map_err(err)?,
@@ -613,23 +614,11 @@ pub fn draw<DB: DrawingBackend>(
                     .map_err(err)?,
             };
             if first && series.in_legend {
-                let color = series.color.rgb();
-                let dashed = series.stroke == Stroke::Dashed;
-                let (w, seg) = (line_width, size(20.0) as i32);
-                annotation
-                    .label(series.name.as_str())
-                    .legend(move |(x, y)| {
-                        let s = ShapeStyle::from(&color).stroke_width(w);
-                        if dashed {
-                            EmptyElement::at((x, y))
-                                + PathElement::new(vec![(0, 0), (seg / 3, 0)], s)
-                                + PathElement::new(vec![(2 * seg / 3, 0), (seg, 0)], s)
-                        } else {
-                            EmptyElement::at((x, y))
-                                + PathElement::new(vec![(0, 0), (seg, 0)], s)
-                                + PathElement::new(vec![(0, 0), (0, 0)], s)
-                        }
-                    });
+                legend.push((
+                    series.name.as_str(),
+                    series.color,
+                    series.stroke == Stroke::Dashed,
+                ));
                 first = false;
             }
         }
@@ -761,23 +750,80 @@ pub fn draw<DB: DrawingBackend>(
         }
     }
 
-    if spec.series.iter().any(|s| s.in_legend) {
-        let position = match spec.legend {
-            Corner::TopLeft => SeriesLabelPosition::UpperLeft,
-            Corner::TopRight => SeriesLabelPosition::UpperRight,
-            Corner::BottomLeft => SeriesLabelPosition::LowerLeft,
-            Corner::BottomRight => SeriesLabelPosition::LowerRight,
-        };
-        chart
-            .configure_series_labels()
-            .position(position)
-            .margin(size(8.0))
-            .legend_area_size(size(26.0))
-            .label_font(font(12.0))
-            .background_style(WHITE.mix(0.9))
-            .border_style(RGBColor(0x99, 0x99, 0x99))
-            .draw()
+    if !legend.is_empty() {
+        draw_legend(
+            &chart.plotting_area().strip_coord_spec(),
+            &legend,
+            spec.legend,
+            &TextStyle::from(font(12.0)),
+            (
+                size(8.0) as i32,
+                size(26.0) as i32,
+                line_width,
+                size(20.0) as i32,
+            ),
+        )?;
+    }
+    Ok(())
+}
+
+/// The legend box in a corner of the plot: a line sample and the name of each listed series, in a
+/// bordered white box. Drawn here rather than by plotters's series labels, whose default font is
+/// looked up by a Unicode lower-casing of its name (about 16 KB of case tables in the page).
+/// `sizes` are the margin, the sample column's width, the line width and the sample's length,
+/// in device pixels.
+fn draw_legend<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    entries: &[(&str, Color, bool)],
+    corner: Corner,
+    font: &TextStyle,
+    sizes: (i32, i32, u32, i32),
+) -> Result<(), String> {
+    let (margin, sample_width, line_width, sample) = sizes;
+    let err = |e: DrawingAreaErrorKind<DB::ErrorType>| format!("legend: {e}");
+    let mut text = MultiLineText::<_, &str>::new((0, 0), font);
+    for (name, _, _) in entries {
+        text.push_line(*name);
+    }
+    let font_error = |e: plotters::style::FontError| format!("legend: {e}");
+    let (w, h) = text.estimate_dimension().map_err(font_error)?;
+    let (w, h) = (w + sample_width + 2 * margin, h + 2 * margin);
+    let (area_w, area_h) = area.dim_in_pixel();
+    let (area_w, area_h) = (
+        i32::try_from(area_w).unwrap_or(i32::MAX),
+        i32::try_from(area_h).unwrap_or(i32::MAX),
+    );
+    let x = match corner {
+        Corner::TopLeft | Corner::BottomLeft => 5,
+        Corner::TopRight | Corner::BottomRight => area_w - w - 5,
+    };
+    let y = match corner {
+        Corner::TopLeft | Corner::TopRight => 5,
+        Corner::BottomLeft | Corner::BottomRight => area_h - h - 5,
+    };
+    text.relocate((x + sample_width + margin, y + margin));
+    let corners = [(x, y), (x + w, y + h)];
+    area.draw(&Rectangle::new(corners, WHITE.mix(0.9).filled()))
+        .map_err(err)?;
+    area.draw(&Rectangle::new(corners, RGBColor(0x99, 0x99, 0x99)))
+        .map_err(err)?;
+    area.draw(&text).map_err(err)?;
+    let rows = text.compute_line_layout().map_err(font_error)?;
+    for (((_, y0), (_, y1)), (_, color, dashed)) in rows.into_iter().zip(entries) {
+        let (x, y) = (x + margin, (y0 + y1) / 2);
+        let style = ShapeStyle::from(&color.rgb()).stroke_width(line_width);
+        if *dashed {
+            area.draw(&PathElement::new(vec![(x, y), (x + sample / 3, y)], style))
+                .map_err(err)?;
+            area.draw(&PathElement::new(
+                vec![(x + 2 * sample / 3, y), (x + sample, y)],
+                style,
+            ))
             .map_err(err)?;
+        } else {
+            area.draw(&PathElement::new(vec![(x, y), (x + sample, y)], style))
+                .map_err(err)?;
+        }
     }
     Ok(())
 }
