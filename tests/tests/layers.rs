@@ -11,7 +11,10 @@ use std::path::{Path, PathBuf};
 /// (in a lower layer, or earlier in its own layer) and none listed after it. A new module goes
 /// into the layer of what it is, after everything it uses; `lots::x` names `core/src/lots/x.rs`.
 const LAYERS: &[(&str, &[&str])] = &[
-    ("foundation", &["constants", "units", "fermi_dirac"]),
+    (
+        "foundation",
+        &["order", "constants", "units", "fermi_dirac"],
+    ),
     ("data", &["params", "materials", "errors"]),
     (
         "models",
