@@ -205,9 +205,15 @@ pub async fn value_of(client: &Client, id: &str) -> String {
 pub struct TempFile(std::path::PathBuf);
 
 impl TempFile {
-    /// Writes `text` to `<temp>/bandgauge-<purpose>-<pid>/<name>`.
+    /// Writes `text` to `<temp>/bandgauge-<purpose>-<pid>-<n>/<name>`, `n` counting the files
+    /// of this process: tests running in parallel that write the same name (the 1366 and 1920
+    /// px runs of one test) get folders of their own, so one's clean-up never removes the
+    /// other's file.
     pub fn new(purpose: &str, name: &str, text: &str) -> TempFile {
-        let dir = std::env::temp_dir().join(format!("bandgauge-{purpose}-{}", std::process::id()));
+        static MADE: std::sync::atomic::AtomicUsize = std::sync::atomic::AtomicUsize::new(0);
+        let n = MADE.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+        let dir =
+            std::env::temp_dir().join(format!("bandgauge-{purpose}-{}-{n}", std::process::id()));
         std::fs::create_dir_all(&dir).expect("create temp folder");
         let path = dir.join(name);
         std::fs::write(&path, text).unwrap_or_else(|e| panic!("write {}: {e}", path.display()));

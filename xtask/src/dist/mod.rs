@@ -123,11 +123,12 @@ fn compile(profile: Profile) -> Result<PathBuf, String> {
         .args(["-p", APP_BIN, "--bin", APP_BIN])
         .env("BANDGAUGE_BUILD_COMMIT", tools::build_commit());
     if profile == Profile::Release {
-        cargo.arg("--release");
+        // The release profile with the core at opt-level "s" (Cargo.toml, `[profile.page]`).
+        cargo.args(["--profile", "page"]);
     }
     shell::run(&mut cargo)?;
     let folder = match profile {
-        Profile::Release => "release",
+        Profile::Release => "page",
         Profile::Dev => "debug",
     };
     let module = target_dir()
