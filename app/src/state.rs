@@ -257,11 +257,20 @@ impl Default for HallInputs {
 
 /// `Deserialize` for a struct of inputs, read from a JSON object: a member missing takes the
 /// struct's default, unknown members are ignored (as serde's derive with `#[serde(default)]`
-/// does), the `text` members must be strings and the `typed` ones are read by their own types.
+/// does), the `text` members must be strings and the `typed` ones are read by their own types;
+/// `required` members are read by their own types and refused when missing.
 /// Every such struct shares [`object_members`] and [`take_text`] instead of a derived visitor
 /// each (about 28 KB of wasm for the four); serde's messages are kept word for word.
 macro_rules! inputs_from_object {
     ($name:ident, text: [$($text:ident),*], typed: [$($typed:ident),*]) => {
+        inputs_from_object!($name, text: [$($text),*], typed: [$($typed),*], required: []);
+    };
+    (
+        $name:ident,
+        text: [$($text:ident),*],
+        typed: [$($typed:ident),*],
+        required: [$($required:ident),*]
+    ) => {
         impl<'de> Deserialize<'de> for $name {
             fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
                 $name::from_object(Value::deserialize(d)?).map_err(serde::de::Error::custom)
@@ -276,7 +285,20 @@ macro_rules! inputs_from_object {
                 $(if let Some(v) = members.remove(stringify!($typed)) {
                     out.$typed = serde_json::from_value(v)?;
                 })*
-                Ok(out)
+                // As serde's derive: faults in the members given first, then the first
+                // required member missing.
+                #[allow(unused_mut, reason = "structs without required members")]
+                let mut missing: Option<&'static str> = None;
+                $(match members.remove(stringify!($required)) {
+                    Some(v) => out.$required = serde_json::from_value(v)?,
+                    None => {
+                        missing.get_or_insert(stringify!($required));
+                    }
+                })*
+                match missing {
+                    Some(field) => Err(serde::de::Error::missing_field(field)),
+                    None => Ok(out),
+                }
             }
         }
     };
@@ -345,7 +367,7 @@ inputs_from_object!(
 );
 
 /// Everything the workbench needs to reproduce a calculation.
-#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Default)]
 pub struct Workbench {
     /// The view on screen.
     pub view: View,
@@ -361,6 +383,13 @@ pub struct Workbench {
     #[serde(default, skip_serializing_if = "HallInputs::is_default")]
     pub hall: HallInputs,
 }
+
+inputs_from_object!(
+    Workbench,
+    text: [],
+    typed: [hall],
+    required: [view, carriers, sweep, conversion]
+);
 
 /// The version written into saved states; a saved state of another version is not read.
 pub const SAVED_STATE_VERSION: u32 = 1;
@@ -786,6 +815,21 @@ mod tests {
         assert_eq!(
             refused("{\"to\":true}"),
             "invalid type: boolean `true`, expected a string"
+        );
+        let workbench = |text: &str| {
+            serde_json::from_str::<Value>(text)
+                .and_then(serde_json::from_value::<Workbench>)
+                .expect_err("refused")
+                .to_string()
+        };
+        assert_eq!(
+            workbench("{\"view\":\"Sweep\"}"),
+            "missing field `carriers`"
+        );
+        assert_eq!(
+            workbench("{\"sweep\":{\"to\":1}}"),
+            "invalid type: integer `1`, expected a string",
+            "a fault in a member given comes before a member missing"
         );
     }
 
