@@ -784,14 +784,17 @@ mod tests {
         assert_eq!(read.hall.scattering, "hall-scattering");
     }
 
+    /// The complaint on reading `text` (JSON) as a `T` through a `serde_json::Value`.
+    fn complaint<T: serde::de::DeserializeOwned + std::fmt::Debug>(text: &str) -> String {
+        serde_json::from_str::<Value>(text)
+            .and_then(serde_json::from_value::<T>)
+            .expect_err("refused")
+            .to_string()
+    }
+
     #[test]
     fn inputs_that_are_not_an_object_are_refused_as_serde_refuses_them() {
-        let refused = |text: &str| {
-            serde_json::from_str::<Value>(text)
-                .and_then(serde_json::from_value::<SweepInputs>)
-                .expect_err("refused")
-                .to_string()
-        };
+        let refused = complaint::<SweepInputs>;
         assert_eq!(
             refused("null"),
             "invalid type: null, expected struct SweepInputs"
@@ -816,12 +819,7 @@ mod tests {
             refused("{\"to\":true}"),
             "invalid type: boolean `true`, expected a string"
         );
-        let workbench = |text: &str| {
-            serde_json::from_str::<Value>(text)
-                .and_then(serde_json::from_value::<Workbench>)
-                .expect_err("refused")
-                .to_string()
-        };
+        let workbench = complaint::<Workbench>;
         assert_eq!(
             workbench("{\"view\":\"Sweep\"}"),
             "missing field `carriers`"
