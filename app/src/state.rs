@@ -306,25 +306,19 @@ macro_rules! inputs_from_object {
 
 /// The members of a JSON object; anything else is refused as serde refuses it for `expected`.
 fn object_members(value: Value, expected: &str) -> Result<Map<String, Value>, serde_json::Error> {
-    let found = match &value {
-        Value::Object(_) => None,
-        Value::Null => Some(Unexpected::Unit),
-        Value::Bool(b) => Some(Unexpected::Bool(*b)),
-        Value::Number(n) => Some(match (n.as_u64(), n.as_i64()) {
+    let found = match value {
+        Value::Object(members) => return Ok(members),
+        Value::Null => Unexpected::Unit,
+        Value::Bool(b) => Unexpected::Bool(b),
+        Value::Number(n) => match (n.as_u64(), n.as_i64()) {
             (Some(u), _) => Unexpected::Unsigned(u),
             (None, Some(i)) => Unexpected::Signed(i),
             _ => Unexpected::Float(n.as_f64().unwrap_or(f64::NAN)),
-        }),
-        Value::String(text) => Some(Unexpected::Str(text)),
-        Value::Array(_) => Some(Unexpected::Seq),
+        },
+        Value::String(ref text) => Unexpected::Str(text),
+        Value::Array(_) => Unexpected::Seq,
     };
-    if let Some(found) = found {
-        return Err(serde::de::Error::invalid_type(found, &expected));
-    }
-    match value {
-        Value::Object(members) => Ok(members),
-        _ => unreachable!("checked above"),
-    }
+    Err(serde::de::Error::invalid_type(found, &expected))
 }
 
 /// Moves the text member `key`, when present, into `into`.

@@ -214,14 +214,11 @@ fn severity(verdict: Verdict) -> u8 {
 fn identifiers(a: &str, b: &str) -> Ordering {
     match (a.trim().parse::<f64>(), b.trim().parse::<f64>()) {
         (Ok(x), Ok(y)) => x.total_cmp(&y).then_with(|| a.cmp(b)),
-        _ => {
-            let folded = |s: &str| {
-                s.bytes()
-                    .map(|b| b.to_ascii_lowercase())
-                    .collect::<Vec<u8>>()
-            };
-            folded(a).cmp(&folded(b)).then_with(|| a.cmp(b))
-        }
+        _ => a
+            .bytes()
+            .map(|c| c.to_ascii_lowercase())
+            .cmp(b.bytes().map(|c| c.to_ascii_lowercase()))
+            .then_with(|| a.cmp(b)),
     }
 }
 

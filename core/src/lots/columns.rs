@@ -156,7 +156,8 @@ impl fmt::Display for Column {
 }
 
 /// ASCII lower case (every name matched against is ASCII; the Unicode case tables would add
-/// about 16 KB to the page), trimmed, runs of spaces, hyphens and underscores folded to one underscore.
+/// about 16 KB to the page), trimmed, runs of spaces, hyphens and underscores folded to one
+/// underscore.
 pub(crate) fn normalise_name(name: &str) -> String {
     let mut out = String::with_capacity(name.len());
     let mut pending_separator = false;
