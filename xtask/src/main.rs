@@ -7,6 +7,7 @@ mod dist;
 mod fuzz;
 mod serve;
 mod shell;
+mod size;
 mod test;
 mod tools;
 
@@ -24,6 +25,9 @@ commands:
   test               every check: fmt, clippy (native and wasm32), unit and reference tests,
                      the wasm release build and the browser tests; ends with 'N passed, N failed'
   bench              criterion benchmarks of the core and in-browser timings, as one table
+  size [--top N]     where the release wasm's bytes go: each part of the program (our views by
+                     module, the physics core, Leptos, the standard library, other crates, data)
+                     raw and gzipped, and the N largest functions (default 20)
   fuzz [--seconds N] [TARGET...]
                      run the cargo-fuzz targets (all, or those named) for N s each (default 60),
                      as one table; fails on any crashing input and names its file
@@ -41,6 +45,7 @@ fn main() -> ExitCode {
         "test" => test::run(rest),
         "bench" => bench::run(rest),
         "fuzz" => fuzz::run(rest),
+        "size" => size::run(rest),
         "help" | "--help" | "-h" => {
             print!("{USAGE}");
             Ok(())

@@ -163,7 +163,7 @@ fn browser_rows(table: &mut Vec<(String, String)>) -> Result<(), String> {
     Ok(())
 }
 
-fn gzip_len(bytes: &[u8]) -> Result<usize, String> {
+pub(crate) fn gzip_len(bytes: &[u8]) -> Result<usize, String> {
     use std::io::Write as _;
     let mut gz = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());
     gz.write_all(bytes).map_err(|e| format!("gzip: {e}"))?;

@@ -142,8 +142,12 @@ fn compile(profile: Profile) -> Result<PathBuf, String> {
     }
 }
 
+/// The bound module (before wasm-opt) that a release build leaves in
+/// `<target>/bandgauge-dist/` (`cargo xtask size` optimises it again with names kept).
+pub const BOUND_FILE: &str = "bound.wasm";
+
 /// The cargo target folder (`CARGO_TARGET_DIR` when set).
-fn target_dir() -> PathBuf {
+pub fn target_dir() -> PathBuf {
     match std::env::var_os("CARGO_TARGET_DIR") {
         Some(dir) => root().join(dir),
         None => root().join("target"),
@@ -154,7 +158,7 @@ fn target_dir() -> PathBuf {
 fn optimise(wasm: &[u8]) -> Result<Vec<u8>, String> {
     let work = target_dir().join("bandgauge-dist");
     std::fs::create_dir_all(&work).map_err(|e| format!("cannot create {}: {e}", work.display()))?;
-    let input = work.join("bound.wasm");
+    let input = work.join(BOUND_FILE);
     let output = work.join("optimised.wasm");
     std::fs::write(&input, wasm).map_err(|e| format!("cannot write {}: {e}", input.display()))?;
     shell::run(
